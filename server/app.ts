@@ -1,0 +1,60 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import express from 'express';
+import helmet from 'helmet';
+import { config } from './config.js';
+import { sessionMiddleware, loadActor } from './lib/auth.js';
+import { errorHandler, notFoundHandler } from './lib/errors.js';
+import { healthReport } from './lib/health.js';
+import { authRouter, meRouter } from './modules/members/routes.js';
+import { loadActorRecord } from './modules/members/service.js';
+import { networksRouter } from './modules/networks/routes.js';
+import { devRouter } from './modules/dev/routes.js';
+
+/** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
+export function buildApp() {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // photos and documents come straight from object storage through presigned URLs
+          'img-src': ["'self'", 'data:', 'blob:', config.s3.endpoint],
+          'connect-src': ["'self'", config.s3.endpoint],
+          'frame-src': ["'self'"],
+          'form-action': ["'self'", config.oidc.issuer],
+          'upgrade-insecure-requests': config.appOrigin.startsWith('https://') ? [] : null,
+        },
+      },
+    }),
+  );
+  app.use(express.json({ limit: '1mb' }));
+
+  app.get('/api/health', async (_req, res) => {
+    const report = await healthReport();
+    res.status(report.ok ? 200 : 503).json(report);
+  });
+
+  app.use(sessionMiddleware());
+  app.use(loadActor(loadActorRecord));
+
+  app.use(authRouter);
+  app.use(meRouter);
+  app.use(networksRouter);
+  app.use(devRouter);
+
+  app.use('/api', notFoundHandler);
+
+  const clientDir = path.join(config.root, 'dist', 'client');
+  if (fs.existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    // the client's router owns every other path
+    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(clientDir, 'index.html')));
+  }
+
+  app.use(notFoundHandler);
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,68 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { ZodError } from 'zod';
+import { logger } from './logger.js';
+
+/** The one type for expected failures: an HTTP status, a stable code, a message for people, field errors. */
+export class AppError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields?: Record<string, string>,
+    readonly extra?: Record<string, unknown>,
+  ) {
+    super(message);
+    this.name = 'AppError';
+  }
+}
+
+export const badRequest = (message: string, fields?: Record<string, string>) =>
+  new AppError(400, 'invalid_request', message, fields);
+export const unauthenticated = (message = 'Please sign in.') => new AppError(401, 'unauthenticated', message);
+export const forbidden = (message = 'You do not have permission to do that.') => new AppError(403, 'forbidden', message);
+export const notFound = (what = 'That record') => new AppError(404, 'not_found', `${what} was not found.`);
+export const conflict = (message: string, fields?: Record<string, string>) => new AppError(409, 'conflict', message, fields);
+
+/** Turns zod issues into `{ field: message }` using the dotted path of each issue. */
+export function zodFields(err: ZodError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of err.issues) {
+    const key = issue.path.join('.') || '_';
+    fields[key] ??= issue.message;
+  }
+  return fields;
+}
+
+export function toAppError(err: unknown): AppError {
+  if (err instanceof AppError) return err;
+  if (err instanceof ZodError) return badRequest('Some fields need attention.', zodFields(err));
+  const e = err as { type?: string; status?: number; name?: string };
+  // body-parser errors (malformed JSON, too large) are the client's fault
+  if (e && typeof e.status === 'number' && e.status >= 400 && e.status < 500) {
+    return new AppError(e.status, e.type === 'entity.too.large' ? 'too_large' : 'invalid_request', 'The request could not be read.');
+  }
+  if (e?.name === 'SequelizeUniqueConstraintError') return conflict('That already exists.');
+  if (e?.name === 'SequelizeForeignKeyConstraintError') return badRequest('A referenced record does not exist.');
+  return new AppError(500, 'internal', 'Something went wrong on our side. Please try again.');
+}
+
+/** HTTP error handler: clients get `{ error: { code, message, fields? } }`, never a stack trace. */
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  const appErr = toAppError(err);
+  if (appErr.status >= 500) logger.error({ err, path: req.path }, 'request failed');
+  if (res.headersSent) return;
+  res.status(appErr.status).json({
+    error: { code: appErr.code, message: appErr.message, ...(appErr.fields ? { fields: appErr.fields } : {}), ...(appErr.extra ?? {}) },
+  });
+};
+
+export const notFoundHandler: RequestHandler = (req, _res, next) => next(notFound(`${req.method} ${req.path}`));
+
+/** Process-level events land in the same log with the same shape. */
+export function installProcessHandlers() {
+  process.on('unhandledRejection', (reason) => logger.error({ err: reason }, 'unhandled rejection'));
+  process.on('uncaughtException', (err) => {
+    logger.fatal({ err }, 'uncaught exception');
+    process.exitCode = 1;
+  });
+}

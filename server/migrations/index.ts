@@ -1,0 +1,12 @@
+import type { QueryInterface } from 'sequelize';
+import * as initialSchema from './0001-initial-schema.js';
+
+type Step = (params: { context: QueryInterface }) => Promise<void>;
+
+/**
+ * Migrations in order. Listed here rather than globbed so they load the same way under tsx,
+ * Vitest and a compiled build. Add each new file to the end; never reorder or rename applied ones.
+ */
+export const migrations: Array<{ name: string; up: Step; down: Step }> = [
+  { name: '0001-initial-schema', ...initialSchema },
+];

@@ -1,0 +1,94 @@
+import { createContext, useCallback, useContext, useEffect, useMemo, type ReactNode } from 'react';
+import { useSearchParams } from 'react-router-dom';
+import type { SessionShop } from '@/features/session/types';
+
+/**
+ * Which shop the person is working in.
+ *
+ * The address bar (`?shop=<id>`) is the source of truth, so a link or a bookmark opens the same shop
+ * and two tabs can work in two shops side by side. localStorage remembers the last choice, so an
+ * address without `?shop=` (a fresh visit, a plain link) opens where the person left off. A shop id
+ * that is not among the person's shops (a stale bookmark, a role removed) is ignored and replaced.
+ */
+export const CURRENT_SHOP_STORAGE_KEY = 'benchrelay.currentShop';
+export const SHOP_SEARCH_PARAM = 'shop';
+
+interface CurrentShopValue {
+  currentShop: SessionShop | undefined;
+  setCurrentShop: (shopId: string) => void;
+}
+
+const CurrentShopContext = createContext<CurrentShopValue | null>(null);
+
+function readRemembered(): string | null {
+  try {
+    return window.localStorage.getItem(CURRENT_SHOP_STORAGE_KEY);
+  } catch {
+    // Storage can be blocked (private modes, strict settings); the URL still works on its own.
+    return null;
+  }
+}
+
+function remember(shopId: string) {
+  try {
+    window.localStorage.setItem(CURRENT_SHOP_STORAGE_KEY, shopId);
+  } catch {
+    // See readRemembered.
+  }
+}
+
+export function CurrentShopProvider({ shops, children }: { shops: SessionShop[]; children: ReactNode }) {
+  const [searchParams, setSearchParams] = useSearchParams();
+  const fromUrl = searchParams.get(SHOP_SEARCH_PARAM);
+
+  const currentShop = useMemo(() => {
+    const byId = (id: string | null) => (id ? shops.find((shop) => shop.id === id) : undefined);
+    return byId(fromUrl) ?? byId(readRemembered()) ?? shops[0];
+  }, [shops, fromUrl]);
+
+  useEffect(() => {
+    if (!currentShop) return;
+    remember(currentShop.id);
+    if (fromUrl !== currentShop.id) {
+      setSearchParams(
+        (previous) => {
+          const next = new URLSearchParams(previous);
+          next.set(SHOP_SEARCH_PARAM, currentShop.id);
+          return next;
+        },
+        { replace: true },
+      );
+    }
+  }, [currentShop, fromUrl, setSearchParams]);
+
+  const setCurrentShop = useCallback(
+    (shopId: string) => {
+      if (!shops.some((shop) => shop.id === shopId)) return;
+      remember(shopId);
+      setSearchParams((previous) => {
+        const next = new URLSearchParams(previous);
+        next.set(SHOP_SEARCH_PARAM, shopId);
+        return next;
+      });
+    },
+    [shops, setSearchParams],
+  );
+
+  const value = useMemo(() => ({ currentShop, setCurrentShop }), [currentShop, setCurrentShop]);
+  return <CurrentShopContext.Provider value={value}>{children}</CurrentShopContext.Provider>;
+}
+
+export function useCurrentShop(): CurrentShopValue {
+  const value = useContext(CurrentShopContext);
+  if (!value) throw new Error('useCurrentShop must be used below CurrentShopProvider');
+  return value;
+}
+
+/** Adds the current shop to an in-app path, so moving between screens keeps the shop of this tab. */
+export function withShop(path: string, shopId: string | undefined): string {
+  if (!shopId) return path;
+  const [pathname, query = ''] = path.split('?');
+  const params = new URLSearchParams(query);
+  params.set(SHOP_SEARCH_PARAM, shopId);
+  return `${pathname}?${params.toString()}`;
+}

@@ -1,0 +1,21 @@
+import type { AppAbility } from '@/lib/ability';
+
+export interface NavItem {
+  to: string;
+  label: string;
+  /** Match the path exactly (for Home, which would otherwise be active everywhere). */
+  end?: boolean;
+  /** Shown only when the ability allows this; the same check guards the route itself. */
+  requires?: { action: string; subject: string };
+}
+
+// Only screens that exist are listed. Each new area adds its entry here and its route in router.tsx.
+export const navItems: NavItem[] = [
+  { to: '/', label: 'Home', end: true },
+  { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
+  { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
+];
+
+export function visibleNavItems(ability: AppAbility): NavItem[] {
+  return navItems.filter((item) => !item.requires || ability.can(item.requires.action, item.requires.subject));
+}

@@ -1,0 +1,50 @@
+import { execFileSync } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { testEnv, TEST_PORTS, TEST_S3_DIR } from './test-env.js';
+
+/**
+ * Once per `npm test`: a fresh test database on the local PostgreSQL (started if needed), the schema,
+ * and the three stand-ins on the test ports. Everything started here is stopped in the teardown.
+ */
+export default async function setup() {
+  Object.assign(process.env, testEnv);
+  const root = process.cwd();
+  execFileSync('bash', ['docker-free-dev/postgres.sh', 'reset-db', 'benchrelay_test'], { stdio: ['ignore', 'ignore', 'inherit'] });
+
+  const { migrateUp } = await import('../../server/migrate.js');
+  const { sequelize } = await import('../../server/lib/db.js');
+  await migrateUp();
+  await sequelize.close();
+
+  for (const dir of [TEST_S3_DIR, testEnv.MAIL_CATCHER_DIR]) fs.rmSync(path.join(root, dir), { recursive: true, force: true });
+  const { startIdentityProvider } = await import('../../docker-free-dev/identity-provider.js');
+  const { startS3Server } = await import('../../docker-free-dev/s3-server.js');
+  const { startMailCatcher } = await import('../../docker-free-dev/mail-catcher.js');
+  const { demoPeople } = await import('../../server/seed/demo-people.js');
+
+  const idp = await startIdentityProvider({
+    port: TEST_PORTS.oidc,
+    issuer: testEnv.OIDC_ISSUER,
+    clients: [
+      {
+        client_id: testEnv.OIDC_CLIENT_ID,
+        client_secret: testEnv.OIDC_CLIENT_SECRET,
+        redirect_uris: [`${testEnv.APP_ORIGIN}/auth/callback`],
+        post_logout_redirect_uris: [`${testEnv.APP_ORIGIN}/`],
+      },
+    ],
+    accounts: demoPeople,
+  });
+  const s3 = await startS3Server({
+    port: TEST_PORTS.s3,
+    directory: path.join(root, TEST_S3_DIR),
+    bucket: testEnv.S3_BUCKET,
+    corsOrigins: [testEnv.APP_ORIGIN],
+  });
+  const mail = await startMailCatcher({ port: TEST_PORTS.smtp, directory: path.join(root, testEnv.MAIL_CATCHER_DIR) });
+
+  return async () => {
+    await Promise.allSettled([idp.close(), s3.close(), mail.close()]);
+  };
+}

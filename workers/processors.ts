@@ -1,0 +1,32 @@
+import type { Job } from 'bullmq';
+import { sendMail } from '../server/lib/mail.js';
+import { createWorker, QUEUE_NAME } from '../server/lib/queue.js';
+import { logger } from '../server/lib/logger.js';
+
+/**
+ * Each queued job names what it does; the processor calls the same service functions the routes use.
+ * A job's id is chosen by whoever adds it, so a repeated add of the same step is a no-op.
+ */
+export const processors = {
+  'send-email': async (job: Job<{ to: string; subject: string; text: string; html?: string }>) => {
+    const messageId = await sendMail(job.data);
+    return { messageId };
+  },
+} satisfies Record<string, (job: Job<never>) => Promise<unknown>>;
+
+export type JobName = keyof typeof processors;
+
+export async function processJob(job: Job): Promise<unknown> {
+  const run = processors[job.name as JobName] as ((job: Job) => Promise<unknown>) | undefined;
+  if (!run) throw new Error(`No processor for job "${job.name}"`);
+  return run(job);
+}
+
+export function startWorker(concurrency = 4) {
+  const worker = createWorker(QUEUE_NAME, processJob, { concurrency });
+  worker.on('failed', (job, err) =>
+    logger.warn({ jobId: job?.id, name: job?.name, attempt: job?.attemptsMade, err: err.message }, 'queued job failed'),
+  );
+  worker.on('error', (err) => logger.error({ err }, 'worker error'));
+  return worker;
+}
