@@ -47,11 +47,11 @@ export function buildApp() {
 
   app.use('/api', notFoundHandler);
 
-  const clientDir = path.join(config.root, 'dist', 'client');
+  const clientDir = config.clientDir;
   if (fs.existsSync(path.join(clientDir, 'index.html'))) {
     app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
     // the client's router owns every other path
-    app.get('/{*splat}', (_req, res) => res.sendFile(path.join(clientDir, 'index.html')));
+    app.get('/{*splat}', (_req, res) => res.sendFile('index.html', { root: clientDir }));
   }
 
   app.use(notFoundHandler);

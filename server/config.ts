@@ -43,6 +43,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
     /** Where the local mail catcher writes messages; the development mail page reads it. Unset in production. */
     mailCatcherDir: production ? undefined : path.resolve(root, env.MAIL_CATCHER_DIR ?? '.data/mail'),
     redisUrl: env.REDIS_URL || undefined,
+    /** The built client that Express serves (vite build output). */
+    clientDir: path.resolve(root, env.CLIENT_DIR ?? 'dist/client'),
     /** Run the queue worker inside the API process (the default on the PostgreSQL queue backend). */
     embeddedWorker: (env.EMBEDDED_WORKER ?? (env.REDIS_URL ? 'false' : 'true')) === 'true',
     logLevel: env.LOG_LEVEL ?? (env.NODE_ENV === 'test' ? 'silent' : 'info'),

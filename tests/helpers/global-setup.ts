@@ -1,7 +1,7 @@
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { testEnv, TEST_PORTS, TEST_S3_DIR } from './test-env.js';
+import { testEnv, TEST_PORTS, TEST_S3_DIR, TEST_DATABASE, TEST_DATA_DIR, TEST_CLIENT_DIR } from './test-env.js';
 
 /**
  * Once per `npm test`: a fresh test database on the local PostgreSQL (started if needed), the schema,
@@ -10,14 +10,18 @@ import { testEnv, TEST_PORTS, TEST_S3_DIR } from './test-env.js';
 export default async function setup() {
   Object.assign(process.env, testEnv);
   const root = process.cwd();
-  execFileSync('bash', ['docker-free-dev/postgres.sh', 'reset-db', 'benchrelay_test'], { stdio: ['ignore', 'ignore', 'inherit'] });
+  execFileSync('bash', ['docker-free-dev/postgres.sh', 'reset-db', TEST_DATABASE], { stdio: ['ignore', 'ignore', 'inherit'] });
+
+  // the browser tests need the real client; build it once per run into the test's own folder
+  const { build } = await import('vite');
+  await build({ root, logLevel: 'error', build: { outDir: path.join(root, TEST_CLIENT_DIR), emptyOutDir: true } });
 
   const { migrateUp } = await import('../../server/migrate.js');
   const { sequelize } = await import('../../server/lib/db.js');
   await migrateUp();
   await sequelize.close();
 
-  for (const dir of [TEST_S3_DIR, testEnv.MAIL_CATCHER_DIR]) fs.rmSync(path.join(root, dir), { recursive: true, force: true });
+  for (const dir of [TEST_S3_DIR, testEnv.MAIL_CATCHER_DIR, TEST_DATA_DIR]) fs.rmSync(path.join(root, dir), { recursive: true, force: true });
   const { startIdentityProvider } = await import('../../docker-free-dev/identity-provider.js');
   const { startS3Server } = await import('../../docker-free-dev/s3-server.js');
   const { startMailCatcher } = await import('../../docker-free-dev/mail-catcher.js');

@@ -1,3 +1,4 @@
+import { TEST_PORTS, TEST_DATA_DIR } from '../helpers/test-env.js';
 import net from 'node:net';
 import * as client from 'openid-client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -6,7 +7,7 @@ import { demoPeople } from '../../server/seed/demo-people.js';
 
 // Its own port, next to the shared test identity provider (4410), so this file can start and stop
 // its provider while the global setup's is running.
-const PORT = 4411;
+const PORT = TEST_PORTS.spareOidc;
 const ISSUER = `http://127.0.0.1:${PORT}`;
 const APP = 'http://localhost:3199';
 const REDIRECT_URI = `${APP}/auth/callback`;

@@ -1,3 +1,4 @@
+import { TEST_PORTS, TEST_DATA_DIR } from '../helpers/test-env.js';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
@@ -6,8 +7,8 @@ import { startMailCatcher } from '../../docker-free-dev/mail-catcher.js';
 
 // Its own port and folder, next to the shared test catcher (2535, .data/test-mail), so this file
 // can start and stop its catcher while the global setup's is running.
-const PORT = 2536;
-const DIRECTORY = path.resolve('.data/test-mail-service');
+const PORT = TEST_PORTS.spareSmtp;
+const DIRECTORY = path.resolve(TEST_DATA_DIR, 'mail-service');
 const FROM = 'Benchrelay <no-reply@benchrelay.test>';
 
 type Mail = typeof import('../../server/lib/mail.js');

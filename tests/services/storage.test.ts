@@ -1,3 +1,4 @@
+import { TEST_PORTS, TEST_DATA_DIR } from '../helpers/test-env.js';
 import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import net from 'node:net';
@@ -7,10 +8,10 @@ import { startS3Server } from '../../docker-free-dev/s3-server.js';
 
 // Its own port and folder, next to the shared test stand-ins (4579, .data/test-s3), so this file
 // can start and stop its S3 server while the global setup's is running.
-const PORT = 4580;
+const PORT = TEST_PORTS.spareS3;
 const ENDPOINT = `http://127.0.0.1:${PORT}`;
 const BUCKET = 'storage-test';
-const DIRECTORY = path.resolve('.data/test-s3-storage');
+const DIRECTORY = path.resolve(TEST_DATA_DIR, 's3-storage');
 const APP_ORIGIN = 'http://localhost:3110';
 
 type Storage = typeof import('../../server/lib/storage.js');

@@ -1,0 +1,13 @@
+import { chromium } from 'playwright-core';
+const [,, who = 'Avery', path = '/', out = '/tmp/shots/a.png', w = '1280'] = process.argv;
+const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ['--no-sandbox','--disable-gpu','--disable-dev-shm-usage','--disable-background-networking','--disable-component-update','--disable-sync','--no-first-run'] });
+const page = await browser.newPage({ viewport: { width: Number(w), height: 900 } });
+await page.goto('http://localhost:3000/');
+await page.getByRole('link', { name: /sign in/i }).first().click();
+await page.getByRole('button', { name: new RegExp(who) }).click();
+await page.waitForLoadState('networkidle');
+if (path !== '/') await page.goto('http://localhost:3000' + path);
+await page.waitForTimeout(800);
+await page.screenshot({ path: out, fullPage: true });
+console.log(page.url());
+await browser.close();
