@@ -1,34 +1,9 @@
-/**
- * Job stages in the order work moves through a shop, then the two holds. The labels are the words
- * shown everywhere in the client.
- */
-export const jobStages = [
-  'intake',
-  'assessed',
-  'approved',
-  'on_bench',
-  'quality_check',
-  'ready',
-  'released',
-  'waiting_for_parts',
-  'in_transit',
-] as const;
+import { ALL_JOB_STAGES, JOB_HOLDS, JOB_STAGE_LABELS, type JobStage } from '@shared/domain';
 
-export type JobStage = (typeof jobStages)[number];
-
-export const stageLabels: Record<JobStage, string> = {
-  intake: 'Intake',
-  assessed: 'Assessed',
-  approved: 'Approved',
-  on_bench: 'On bench',
-  quality_check: 'Quality check',
-  ready: 'Ready',
-  released: 'Released',
-  waiting_for_parts: 'Waiting for parts',
-  in_transit: 'In transit',
-};
-
-export const holdStages: ReadonlySet<JobStage> = new Set(['waiting_for_parts', 'in_transit']);
+export type { JobStage };
+export const jobStages = ALL_JOB_STAGES;
+export const stageLabels = JOB_STAGE_LABELS;
+export const holdStages: ReadonlySet<JobStage> = new Set(JOB_HOLDS);
 
 export function isJobStage(value: string): value is JobStage {
   return (jobStages as readonly string[]).includes(value);
@@ -42,12 +17,12 @@ export interface StageCount {
 }
 
 /**
- * Non-zero stage counts in workflow order. A stage the client does not know yet (the server moved
+ * Non-zero counts of open work in workflow order (released jobs are done, so they are left out). A stage the client does not know yet (the server moved
  * ahead of this build) is still shown, after the known ones, rather than silently dropped.
  */
 export function stageBreakdown(jobsByStage: Record<string, number>): StageCount[] {
   const known = jobStages
-    .filter((stage) => (jobsByStage[stage] ?? 0) > 0)
+    .filter((stage) => stage !== 'released' && (jobsByStage[stage] ?? 0) > 0)
     .map((stage) => ({ stage, label: stageLabels[stage], count: jobsByStage[stage], hold: holdStages.has(stage) }));
   const unknown = Object.entries(jobsByStage)
     .filter(([stage, count]) => !isJobStage(stage) && count > 0)
