@@ -20,7 +20,7 @@ const SHOP_ROLES: Exclude<Role, 'owner'>[] = ['regional_manager', 'front_desk', 
  * The world the authorization matrix runs in. Network A has the shop `own` (where each signed-in
  * person holds their role), the shop `otherShop` (where none of them does) and a third shop that only
  * receives transfers; network B mirrors it. For every scope there is one record of each kind, placed
- * at that scope's shop.
+ * at that scope's shop; `destinationShop` is where that scope's transfer and relay run go.
  */
 export async function buildWorld(app: Express): Promise<World> {
   const networkA = await makeNetwork();
@@ -72,7 +72,7 @@ export async function buildWorld(app: Express): Promise<World> {
       networkId, fromShopId: shopId, toShopId: destinationId, weekdays: [2, 4], departureTime: '07:30:00', transitHours: 5,
     });
     return {
-      shop: shopId, user: staff.id, membership: membership!.id, customer: customer.id, instrument: instrument.id,
+      shop: shopId, destinationShop: destinationId, user: staff.id, membership: membership!.id, customer: customer.id, instrument: instrument.id,
       job: job.id, transfer: transfer.id, attachment: attachment.id, invitation: invitation.id, skill: skillId,
       relayRun: relayRun.id,
     };
