@@ -297,7 +297,7 @@ export async function updatePerson(actor: Actor, userId: string, input: PersonUp
  * Serialises every change that could leave a network without an active owner (removing an owner
  * role, deactivating an owner): two owners demoting each other at the same moment cannot both win.
  */
-async function lockOwners(networkId: string, transaction: Transaction) {
+export async function lockOwners(networkId: string, transaction: Transaction) {
   await sequelize.query(`select pg_advisory_xact_lock(hashtext('benchrelay:owners:' || :networkId))`, {
     replacements: { networkId },
     transaction,
