@@ -14,6 +14,7 @@ export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
+  { to: '/audit-log', label: 'Audit log', requires: { action: 'read', subject: 'AuditLog' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {
