@@ -70,15 +70,17 @@ export function PersonRoles({ person, shops }: { person: Person; shops: Array<{ 
                       value={m.role}
                       disabled={change.isPending}
                       aria-label={`Role at ${where}`}
-                      onChange={(e) =>
+                      onChange={(e) => {
+                        // read now: the controlled select shows the stored role again until the refetch lands
+                        const next = e.target.value as ShopRole;
                         change.mutate(
-                          { membershipId: m.id, role: e.target.value as ShopRole },
+                          { membershipId: m.id, role: next },
                           {
-                            onSuccess: () => setMessage({ tone: 'success', text: `Role at ${where} changed to ${ROLE_LABELS[e.target.value as ShopRole]}.` }),
+                            onSuccess: () => setMessage({ tone: 'success', text: `Role at ${where} changed to ${ROLE_LABELS[next]}.` }),
                             onError: fail,
                           },
-                        )
-                      }
+                        );
+                      }}
                     >
                       {SHOP_ROLES.map((r) => (
                         <option key={r} value={r}>

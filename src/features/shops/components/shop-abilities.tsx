@@ -30,7 +30,8 @@ export function ShopAbilities({ shopId, shopName }: { shopId: string; shopName: 
   const allowed = shopAbilities(ability, shopId);
   return (
     <Card as="section" aria-labelledby="shop-abilities-heading">
-      <CardTitle id="shop-abilities-heading">What you can do at {shopName}</CardTitle>
+      <CardTitle id="shop-abilities-heading">What you can do here</CardTitle>
+      <p className="mt-1 text-ink-600">At {shopName}, from the roles you hold there.</p>
       {allowed.length === 0 ? (
         <p className="mt-3 text-ink-600">Nothing at this shop yet.</p>
       ) : (
