@@ -106,6 +106,8 @@ export async function audit(
 
 export interface AuditEntry {
   id: string;
+  /** The record in words ("Mira Stavros at North Bench"), so the log reads without looking ids up. */
+  subject: string;
   at: string;
   actor: { id: string; name: string; email: string } | null;
   action: string;
@@ -120,6 +122,49 @@ function decodeCursor(cursor: string): { at: string; id: string } {
   const [at, id] = Buffer.from(cursor, 'base64url').toString('utf8').split('|');
   if (!at || !id || Number.isNaN(Date.parse(at)) || !/^[0-9a-f-]{36}$/i.test(id)) throw badRequest('That page of the log is not valid.', { cursor: 'Not a valid cursor.' });
   return { at, id };
+}
+
+/**
+ * Names for the records a page of the log mentions, looked up in two queries (people, shops) rather
+ * than stored in every entry, so a renamed shop reads with its current name.
+ */
+async function auditLabeller(networkId: string, rows: Array<{ entity: string; entity_id: string | null; before: Record<string, unknown> | null; after: Record<string, unknown> | null }>) {
+  const userIds = new Set<string>();
+  const shopIds = new Set<string>();
+  const isId = (v: unknown): v is string => typeof v === 'string' && /^[0-9a-f-]{36}$/i.test(v);
+  for (const r of rows) {
+    const snap = { ...(r.before ?? {}), ...(r.after ?? {}) };
+    if (r.entity === 'User' && isId(r.entity_id)) userIds.add(r.entity_id);
+    if (r.entity === 'Shop' && isId(r.entity_id)) shopIds.add(r.entity_id);
+    for (const key of ['userId']) if (isId(snap[key])) userIds.add(snap[key] as string);
+    for (const key of ['shopId', 'fromShopId', 'toShopId']) if (isId(snap[key])) shopIds.add(snap[key] as string);
+  }
+  const [users, shops] = await Promise.all([
+    userIds.size ? User.findAll({ where: { networkId, id: [...userIds] }, attributes: ['id', 'name'] }) : [],
+    shopIds.size ? Shop.findAll({ where: { networkId, id: [...shopIds] }, attributes: ['id', 'name'] }) : [],
+  ]);
+  const userName = new Map(users.map((u) => [u.id, u.name]));
+  const shopName = new Map(shops.map((x) => [x.id, x.name]));
+  return (entity: string, entityId: string | null, snap: Record<string, unknown> | null): string => {
+    const s = snap ?? {};
+    const shop = (id: unknown) => (typeof id === 'string' ? (shopName.get(id) ?? 'a removed shop') : 'the whole network');
+    switch (entity) {
+      case 'User':
+        return userName.get(entityId ?? '') ?? String(s.name ?? 'a person');
+      case 'Membership':
+        return `${userName.get(String(s.userId)) ?? 'a person'} at ${shop(s.shopId)}`;
+      case 'Invitation':
+        return String(s.email ?? 'an invitation');
+      case 'Shop':
+        return shopName.get(entityId ?? '') ?? String(s.name ?? 'a shop');
+      case 'RelayRun':
+        return `${shop(s.fromShopId)} → ${shop(s.toShopId)}`;
+      case 'Skill':
+        return String(s.name ?? 'a skill');
+      default:
+        return entityId ?? entity;
+    }
+  };
 }
 
 /** The owner reads the log newest first, a page at a time, optionally for one record. */
@@ -158,9 +203,11 @@ export async function listAuditLog(actor: Actor, query: AuditLogQuery): Promise<
   );
   const page = rows.slice(0, query.limit);
   const last = page[page.length - 1];
+  const label = await auditLabeller(actor.networkId, page);
   return {
     entries: page.map((r) => ({
       id: r.id,
+      subject: label(r.entity, r.entity_id, r.before ?? r.after),
       at: new Date(r.at).toISOString(),
       actor: r.actor_user_id ? { id: r.actor_user_id, name: r.actor_name ?? '', email: r.actor_email ?? '' } : null,
       action: r.action,

@@ -43,6 +43,7 @@ export interface InvitationPreview {
 
 export interface AuditEntry {
   id: string;
+  subject: string;
   at: string;
   actor: { id: string; name: string; email: string } | null;
   action: string;

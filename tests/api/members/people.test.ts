@@ -173,12 +173,13 @@ describe('people and roles', () => {
     expect(byRole.body.entries).toHaveLength(1);
     expect(byRole.body.entries[0]).toMatchObject({
       action: 'membership.updated',
+      subject: 'Audit Renamed at Alder Bench', // today's name: the log reads with current names
       actor: { id: owner.id, name: 'Avery Quill' },
       before: { role: 'technician', shopId: shopA.id },
       after: { role: 'auditor', shopId: shopA.id },
     });
     const byPerson = await request(app).get('/api/audit-log').query({ entity: 'User', entityId: person.id }).set('Cookie', ownerCookie).expect(200);
-    expect(byPerson.body.entries[0]).toMatchObject({ action: 'person.updated', before: { name: expect.stringContaining('Audit Subject') }, after: { name: 'Audit Renamed' } });
+    expect(byPerson.body.entries[0]).toMatchObject({ action: 'person.updated', subject: 'Audit Renamed', before: { name: expect.stringContaining('Audit Subject') }, after: { name: 'Audit Renamed' } });
 
     // pages do not overlap and cover everything
     const first = await request(app).get('/api/audit-log').query({ limit: 2 }).set('Cookie', ownerCookie).expect(200);

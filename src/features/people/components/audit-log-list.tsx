@@ -34,12 +34,10 @@ export function AuditLogList({ filters = {} }: { filters?: AuditFilters }) {
                   {formatDateTime(entry.at)}
                 </time>
               </p>
-              <p className="text-sm text-ink-800">
-                by {entry.actor ? `${entry.actor.name} (${entry.actor.email})` : 'Benchrelay'} · {entry.entity}
-                {entry.entityId ? <span className="break-all text-ink-600"> {entry.entityId}</span> : null}
-              </p>
+              <p className="text-ink-950">{entry.subject}</p>
+              <p className="text-sm text-ink-600">by {entry.actor ? `${entry.actor.name} (${entry.actor.email})` : 'Benchrelay'}</p>
               {changes.length ? (
-                <ul className="mt-1 flex flex-col gap-0.5 font-mono text-xs break-all text-ink-800">
+                <ul className="mt-1 flex flex-col gap-0.5 font-mono text-xs break-all text-ink-800" aria-label="Changes">
                   {changes.map((c) => (
                     <li key={c}>{c}</li>
                   ))}
