@@ -2,7 +2,7 @@ import type { Job } from 'bullmq';
 import { sendMail } from '../server/lib/mail.js';
 import { createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
-import { makeThumbnail } from '../server/modules/files/service.js';
+import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
 import { deliverOutboxMessage } from '../server/modules/notifications/service.js';
 
 /**
@@ -17,6 +17,9 @@ export const processors = {
   // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed
   'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
     makeThumbnail(job.data.networkId, job.data.attachmentId),
+  // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed
+  'expire-upload': async (job: Job<{ networkId: string; attachmentId: string }>) =>
+    expireUpload(job.data.networkId, job.data.attachmentId),
   // job id `outbox-<outboxId>`: one delivery per outbox row
   'deliver-outbox': async (job: Job<{ networkId: string; outboxId: string }>) =>
     deliverOutboxMessage(job.data.networkId, job.data.outboxId),

@@ -135,7 +135,39 @@ export async function createUpload(actor: Actor, jobId: string, input: Attachmen
     sizeBytes: input.size,
     uploadedByUserId: actor.id,
   });
+  await queueUploadExpiry(a);
   return ticketFor(actor, a, job.number);
+}
+
+/** How long an unconfirmed upload may sit before its object and row are cleared away. */
+export const PENDING_UPLOAD_LIFETIME_MS = (UPLOAD_URL_SECONDS + 15 * 60) * 1000;
+
+async function queueUploadExpiry(a: Attachment) {
+  try {
+    await appQueue().add('expire-upload', { networkId: a.networkId, attachmentId: a.id }, {
+      // one check per issued link: a renewed link gets its own, later check
+      jobId: `expire-upload-${a.id}-${new Date(a.updatedAt).getTime()}`,
+      delay: PENDING_UPLOAD_LIFETIME_MS,
+      attempts: 3,
+      backoff: { type: 'exponential', delay: 5000 },
+      removeOnComplete: 1000,
+    });
+  } catch (err) {
+    logger.warn({ err: (err as Error).message, attachmentId: a.id }, 'could not schedule the clean-up of an upload');
+  }
+}
+
+/**
+ * Worker step: an upload nobody confirmed in time (the phone lost its connection for good, the page
+ * was closed) loses its object and its row, so storage keeps nothing the API never checked.
+ */
+export async function expireUpload(networkId: string, attachmentId: string, now = new Date()): Promise<{ expired: boolean }> {
+  const a = await Attachment.findOne({ where: { networkId, id: attachmentId } });
+  if (!a || a.status === 'stored') return { expired: false };
+  if (a.status === 'pending' && new Date(a.updatedAt).getTime() + PENDING_UPLOAD_LIFETIME_MS > now.getTime()) return { expired: false };
+  await deleteObject(a.objectKey);
+  await a.destroy();
+  return { expired: true };
 }
 
 /** A fresh PUT link for an upload that has not been confirmed (the connection dropped, the link expired). */
@@ -145,6 +177,10 @@ export async function renewUpload(actor: Actor, attachmentId: string): Promise<U
   if (a.uploadedByUserId !== actor.id) throw forbidden('Only the person who started this upload can retry it.');
   if (a.status !== 'pending') throw conflict(a.status === 'stored' ? 'This file is already stored.' : 'This upload was refused; start a new one.');
   const job = await Job.findOne({ where: { networkId: actor.networkId, id: a.jobId! } });
+  // a new link restarts the clock on the clean-up
+  a.changed('updatedAt', true);
+  await a.save();
+  await queueUploadExpiry(a);
   return ticketFor(actor, a, job?.number ?? 0);
 }
 
