@@ -36,7 +36,7 @@ describe('photos and documents through presigned uploads', () => {
   const begin = (cookie: string, body: object, job = jobId) =>
     request(app).post(`/api/jobs/${job}/attachments`).set('Cookie', cookie).send(body);
   const put = (ticket: UploadTicket, bytes: Buffer, contentType = ticket.upload.headers['Content-Type']) =>
-    fetch(ticket.upload.url, { method: 'PUT', headers: { 'Content-Type': contentType }, body: bytes });
+    fetch(ticket.upload.url, { method: 'PUT', headers: { 'Content-Type': contentType }, body: new Uint8Array(bytes) });
   const confirm = (cookie: string, id: string) => request(app).post(`/api/attachments/${id}/confirm`).set('Cookie', cookie);
   const keyOf = async (id: string) => (await Attachment.findOne({ where: { id } }))!.objectKey;
   const listKeys = async (prefix: string) =>
