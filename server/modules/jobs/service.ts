@@ -745,7 +745,10 @@ function catalogDto(item: ServiceCatalogItem): CatalogItemDto {
   };
 }
 
-export async function listCatalog(actor: Actor, q: z.infer<typeof catalogQuerySchema>): Promise<{ items: CatalogItemDto[] }> {
+export async function listCatalog(
+  actor: Actor,
+  q: z.infer<typeof catalogQuerySchema>,
+): Promise<{ items: CatalogItemDto[]; skills: PersonRef[] }> {
   assertCan(actor.ability, 'read', 'ServiceCatalog', undefined, 'You cannot see the service catalog.');
   const where: WhereOptions[] = [{ networkId: actor.networkId }];
   if (!q.includeInactive) where.push({ active: true });
@@ -756,7 +759,7 @@ export async function listCatalog(actor: Actor, q: z.infer<typeof catalogQuerySc
     include: [{ model: Skill, as: 'skill', attributes: ['id', 'name'] }],
     order: [['active', 'DESC'], ['name', 'ASC']],
   });
-  return { items: items.map(catalogDto) };
+  return { items: items.map(catalogDto), skills: await networkSkills(actor.networkId) };
 }
 
 async function checkSkill(networkId: string, skillId: string | null | undefined) {

@@ -202,7 +202,7 @@ function Pager(props: { page: number; pageSize: number; total: number; onPage: (
           Next
         </Button>
       </div>
-      <label className="flex items-center gap-2 text-sm text-ink-800">
+      <label className="flex items-center gap-2 text-sm whitespace-nowrap text-ink-800">
         Per page
         <select className={cn(controlClasses, 'w-auto')} value={props.pageSize} onChange={(e) => props.onPageSize(Number(e.target.value))}>
           {BOARD_PAGE_SIZES.map((n) => (

@@ -55,8 +55,16 @@ export function ServiceCatalogEditor() {
   return (
     <div className="flex flex-col gap-6">
       <div className="overflow-x-auto rounded-2xl border border-paper-200 bg-white">
-        <table className="w-full min-w-[52rem] text-left text-sm">
+        <table className="w-full min-w-[56rem] table-fixed text-left text-sm">
           <caption className="sr-only">Service catalog</caption>
+          <colgroup>
+            <col className="w-[32%]" />
+            <col className="w-[18%]" />
+            <col className="w-[11%]" />
+            <col className="w-[20%]" />
+            <col className="w-[10%]" />
+            <col className="w-[9%]" />
+          </colgroup>
           <thead className="border-b border-paper-200 bg-paper-50 text-ink-600">
             <tr>
               <th scope="col" className="px-3 py-3 font-semibold">Service</th>
@@ -134,7 +142,7 @@ function CatalogRow({ item, skills }: { item?: CatalogItemDto; skills: PersonRef
           form={formId}
           aria-label={`Standard hours of ${label}`}
           inputMode="decimal"
-          className={cn(controlClasses, 'w-28')}
+          className={controlClasses}
           value={draft.standardHours}
           onChange={(e) => set({ standardHours: e.target.value })}
           aria-invalid={hoursError ? true : undefined}
