@@ -128,16 +128,18 @@ function customerView(actor: Actor, c: CustomerRow, served: string[]): CustomerV
 
 /**
  * Trigram similarity needed for a near miss, by the length of the normalised query. One wrong character
- * in a serial of n characters keeps about (n-2)/(n+4) of the trigrams; the thresholds keep single typos
- * while the candidates the index hands back (and the rows rechecked) stay few on a million instruments.
+ * in the middle of a serial of n characters leaves (n-2) of its n+1 trigrams, a similarity of
+ * (n-2)/(n+4): 0.4 at 6 characters, 0.45 at 7, 0.57 at 10. Shorter text is still being typed; the
+ * prefix and fragment kinds answer it, and a near miss of four letters would match half the registry.
  */
 export function similarityThreshold(length: number): number | null {
-  if (length < 4) return null;
-  if (length <= 5) return 0.3;
-  if (length <= 7) return 0.35;
-  if (length <= 9) return 0.4;
+  if (length < 6) return null;
+  if (length === 6) return 0.4;
   return 0.45;
 }
+
+/** Near misses are the fallback: when the literal kinds found this many, or any exact hit, they are enough. */
+const ENOUGH_LITERAL_HITS = 3;
 
 export interface InstrumentHit {
   id: string;
@@ -184,10 +186,29 @@ const HIT_JOINS = `
  * Written as a UNION of small queries, each with its own LIMIT, because each kind is served by a
  * different index: exact and prefix by the btree on (network_id, serial_normalized text_pattern_ops),
  * asset tags by their unique index, fragments and near misses by the GIN trigram index. One combined
- * WHERE with ORs would be planned as a scan of the network's rows. With no text, filters list in
- * serial order. See server/bench/serial-search.ts and BENCHMARKS.md for the figures.
+ * WHERE with ORs would be planned as a scan of the network's rows. Near misses are asked for only
+ * when the literal kinds found next to nothing: short or common trigrams make the similarity scan
+ * recheck many rows, and while someone is still typing a prefix the literal kinds are what they want.
+ * With no text, filters list in serial order. See server/bench/serial-search.ts and BENCHMARKS.md.
  */
 export async function searchInstruments(actor: Actor, input: InstrumentSearch, maxRows?: number): Promise<InstrumentHit[]> {
+  const literal = buildSearchQuery(actor, input, maxRows, { nearMisses: false });
+  const first = (await sequelize.query<HitRow>(literal.sql, { replacements: literal.replacements, type: QueryTypes.SELECT })).map(toHit);
+  const exact = first.some((h) => h.match === 'exact' || h.match === 'asset_tag');
+  const fuzzy = buildSearchQuery(actor, input, maxRows, { nearMisses: true });
+  if (exact || first.length >= ENOUGH_LITERAL_HITS || !fuzzy.threshold) return first;
+  // `%` reads its threshold from a setting; set_config(..., true) keeps it to this transaction.
+  const rows = await sequelize.transaction(async (transaction) => {
+    await sequelize.query(`select set_config('pg_trgm.similarity_threshold', :threshold, true)`, {
+      replacements: { threshold: String(fuzzy.threshold) }, type: QueryTypes.SELECT, transaction,
+    });
+    return sequelize.query<HitRow>(fuzzy.sql, { replacements: fuzzy.replacements, type: QueryTypes.SELECT, transaction });
+  });
+  return rows.map(toHit);
+}
+
+/** The search as SQL (exported for the benchmark, which EXPLAINs it). */
+export function buildSearchQuery(actor: Actor, input: InstrumentSearch, maxRows?: number, options = { nearMisses: true }) {
   const readCondition = instrumentReadCondition(actor);
   const limit = maxRows ?? input.limit;
   const raw = input.q.trim();
@@ -206,18 +227,15 @@ export async function searchInstruments(actor: Actor, input: InstrumentSearch, m
   const and = filters.map((f) => ` and ${f}`).join('');
 
   if (!q && !raw) {
-    const rows = await sequelize.query<HitRow>(
-      `select ${HIT_COLUMNS}, null::int as tier, null::real as score
+    const sql = `select ${HIT_COLUMNS}, null::int as tier, null::real as score
          from instruments i ${HIT_JOINS}
         where i.network_id = :networkId${and}
         order by i.serial_normalized, i.maker_normalized
-        limit :limit`,
-      { replacements, type: QueryTypes.SELECT },
-    );
-    return rows.map(toHit);
+        limit :limit`;
+    return { sql, replacements, threshold: null };
   }
 
-  const threshold = similarityThreshold(q.length);
+  const threshold = options.nearMisses ? similarityThreshold(q.length) : null;
   const branches = [
     q ? `(select i.id, 0 as tier from instruments i where i.network_id = :networkId and i.serial_normalized = :q${and} limit :limit)` : '',
     raw ? `(select i.id, 1 from instruments i where i.network_id = :networkId and i.asset_tag = :tag${and} limit 1)` : '',
@@ -238,17 +256,7 @@ export async function searchInstruments(actor: Actor, input: InstrumentSearch, m
       ${HIT_JOINS}
      order by b.tier, score desc, i.serial_normalized, i.maker_normalized
      limit :limit`;
-
-  const run = (transaction?: Transaction) => sequelize.query<HitRow>(sql, { replacements, type: QueryTypes.SELECT, transaction });
-  if (!threshold) return (await run()).map(toHit);
-  // `%` reads its threshold from a setting; set_config(..., true) keeps it to this transaction.
-  const rows = await sequelize.transaction(async (transaction) => {
-    await sequelize.query(`select set_config('pg_trgm.similarity_threshold', :threshold, true)`, {
-      replacements: { threshold: String(threshold) }, type: QueryTypes.SELECT, transaction,
-    });
-    return run(transaction);
-  });
-  return rows.map(toHit);
+  return { sql, replacements, threshold };
 }
 
 function toHit(r: HitRow): InstrumentHit {
