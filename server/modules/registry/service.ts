@@ -6,7 +6,7 @@ import { sequelize } from '../../lib/db.js';
 import { Customer, HistoryEvent, Instrument, Shop } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { AppError, badRequest, conflict, forbidden, notFound, zodFields } from '../../lib/errors.js';
+import { AppError, badRequest, forbidden, notFound, zodFields } from '../../lib/errors.js';
 import { findJobOpenedBy, openJob } from '../jobs/service.js';
 import { INSTRUMENT_FAMILY_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind } from '../../../shared/domain.js';
 import { normalizeMaker, normalizeSerial } from '../../../shared/serial.js';
@@ -22,7 +22,6 @@ import {
   type MatchKind,
   type TimelineFilter,
   customerInputSchema,
-  jobOpeningSchema,
   intakeSchema,
   importBatchSchema,
 } from '../../../shared/schemas/registry.js';
