@@ -14,6 +14,11 @@ import { InstrumentRoute } from './routes/instrument';
 import { InstrumentLabelRoute } from './routes/instrument-label';
 import { IntakeRoute } from './routes/intake';
 import { RegistryImportRoute } from './routes/registry-import';
+import { JobBoardRoute } from './routes/job-board';
+import { MyBenchRoute } from './routes/my-bench';
+import { JobRoute } from './routes/job';
+import { ServiceCatalogRoute } from './routes/service-catalog';
+import { InstrumentPhotosRoute } from './routes/instrument-photos';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -41,6 +46,46 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobBoardRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'bench',
+            element: (
+              <RequireAbility action="update" subject="Job">
+                <MyBenchRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'catalog',
+            element: (
+              <RequireAbility action="create" subject="ServiceCatalog">
+                <ServiceCatalogRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'instruments/:instrumentId/photos',
+            element: (
+              <RequireAbility action="read" subject="Attachment">
+                <InstrumentPhotosRoute />
               </RequireAbility>
             ),
           },

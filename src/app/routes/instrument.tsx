@@ -23,6 +23,7 @@ export function InstrumentRoute() {
   const i = detail.data?.instrument;
   useDocumentTitle(i ? `${i.maker} ${i.serial}` : 'Instrument');
   const instrumentPath = (other: string) => withShop(`/registry/instruments/${other}`, currentShop?.id);
+  const jobPath = (jobId: string) => withShop(`/jobs/${jobId}`, currentShop?.id);
 
   if (detail.isPending) return <PageSpinner label="Loading the instrument…" />;
   if (detail.isError) {
@@ -46,6 +47,11 @@ export function InstrumentRoute() {
         actions={
           <>
             {canTakeIn ? <ButtonLink to={withShop(`/intake?instrument=${inst.id}`, currentShop?.id)}>Take it in</ButtonLink> : null}
+            {ability.can('read', 'Attachment') ? (
+              <ButtonLink variant="secondary" to={withShop(`/instruments/${inst.id}/photos`, currentShop?.id)}>
+                Photos
+              </ButtonLink>
+            ) : null}
             <ButtonLink variant="secondary" to={withShop(`/registry/instruments/${inst.id}/label`, currentShop?.id)}>
               QR label
             </ButtonLink>
@@ -63,12 +69,13 @@ export function InstrumentRoute() {
         </div>
         <Card as="section" aria-labelledby="visits-heading">
           <CardTitle id="visits-heading">Visits</CardTitle>
-          <JobList detail={data} timeZone={currentShop?.timeZone} />
+          <JobList detail={data} timeZone={currentShop?.timeZone} jobPath={ability.can('read', 'Job') ? jobPath : undefined} />
         </Card>
         <InstrumentTimeline
           instrumentId={inst.id}
           timeZone={currentShop?.timeZone}
           timeZoneLabel={currentShop ? `${currentShop.name}’s time (${formatTimeZone(currentShop.timeZone)})` : undefined}
+          jobPath={ability.can('read', 'Job') ? jobPath : undefined}
         />
       </div>
     </>

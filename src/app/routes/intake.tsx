@@ -34,6 +34,7 @@ export function IntakeRoute() {
         canAddCustomer={ability.can('create', subject('Customer', { homeShopId: currentShop.id }))}
         instrumentPath={(id) => withShop(`/registry/instruments/${id}`, currentShop.id)}
         labelPath={(id) => withShop(`/registry/instruments/${id}/label`, currentShop.id)}
+        jobPath={(id) => withShop(`/jobs/${id}`, currentShop.id)}
       />
     </>
   );

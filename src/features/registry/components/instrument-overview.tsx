@@ -100,7 +100,7 @@ export function OtherMakersWarning({ detail, instrumentPath }: Pick<InstrumentOv
   );
 }
 
-export function JobList({ detail, timeZone }: Pick<InstrumentOverviewProps, 'detail' | 'timeZone'>) {
+export function JobList({ detail, timeZone, jobPath }: Pick<InstrumentOverviewProps, 'detail' | 'timeZone'> & { jobPath?: (id: string) => string }) {
   if (!detail.jobs.length) return <p className="text-ink-600">No visits yet.</p>;
   return (
     <ul className="divide-y divide-paper-200">
@@ -108,7 +108,14 @@ export function JobList({ detail, timeZone }: Pick<InstrumentOverviewProps, 'det
         <li key={job.id} className="flex flex-col gap-1 py-3 sm:flex-row sm:justify-between sm:gap-4">
           <div>
             <p className="font-semibold text-ink-950">
-              Job {job.number} · {job.shop?.name ?? 'a shop'}
+              {jobPath ? (
+                <Link className="text-accent-700 underline" to={jobPath(job.id)}>
+                  Job {job.number}
+                </Link>
+              ) : (
+                `Job ${job.number}`
+              )}{' '}
+              · {job.shop?.name ?? 'a shop'}
             </p>
             <p className="text-sm text-ink-800">{job.complaint}</p>
           </div>

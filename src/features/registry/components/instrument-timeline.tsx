@@ -1,5 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
+import { Link } from 'react-router-dom';
 import { EmptyState } from '@/components/ui/empty-state';
 import { ErrorState } from '@/components/ui/error-state';
 import { Spinner } from '@/components/ui/spinner';
@@ -24,10 +25,11 @@ interface InstrumentTimelineProps {
   /** The viewer's shop time zone: every entry is shown in it, whichever shop wrote it. */
   timeZone: string | undefined;
   timeZoneLabel?: string;
+  jobPath?: (id: string) => string;
 }
 
 /** Everything done to this instrument at any shop, newest first, filterable by kind. */
-export function InstrumentTimeline({ instrumentId, timeZone, timeZoneLabel }: InstrumentTimelineProps) {
+export function InstrumentTimeline({ instrumentId, timeZone, timeZoneLabel, jobPath }: InstrumentTimelineProps) {
   const [kinds, setKinds] = useState<TimelineFilter[]>([]);
   const timeline = useQuery(timelineQueryOptions(instrumentId, kinds));
   const toggle = (kind: TimelineFilter) =>
@@ -68,7 +70,7 @@ export function InstrumentTimeline({ instrumentId, timeZone, timeZoneLabel }: In
       ) : (
         <ol aria-label="Timeline" className={cn('relative flex flex-col gap-0 border-l-2 border-paper-200 pl-5', timeline.isFetching && 'opacity-70')}>
           {timeline.data.map((item) => (
-            <TimelineEntry key={`${item.source}:${item.id}`} item={item} timeZone={timeZone} />
+            <TimelineEntry key={`${item.source}:${item.id}`} item={item} timeZone={timeZone} jobPath={jobPath} />
           ))}
         </ol>
       )}
@@ -82,7 +84,7 @@ const chip = (on: boolean) =>
     on ? 'border-accent-600 bg-accent-50 text-accent-800' : 'border-paper-300 bg-white text-ink-800 hover:border-ink-400',
   );
 
-function TimelineEntry({ item, timeZone }: { item: TimelineItem; timeZone: string | undefined }) {
+function TimelineEntry({ item, timeZone, jobPath }: { item: TimelineItem; timeZone: string | undefined; jobPath?: (id: string) => string }) {
   return (
     <li className="relative pb-5" data-kind={item.filter}>
       <span aria-hidden="true" className={cn('absolute top-1.5 -left-[1.6rem] size-3 rounded-full ring-4 ring-paper-100', FILTER_MARK[item.filter])} />
@@ -100,7 +102,12 @@ function TimelineEntry({ item, timeZone }: { item: TimelineItem; timeZone: strin
       <p className="mt-0.5 text-ink-950">
         <span className="mr-2 rounded bg-paper-200 px-1.5 py-0.5 text-xs font-semibold text-ink-800">{TIMELINE_FILTER_LABELS[item.filter]}</span>
         {item.summary}
-        {item.job ? <span className="text-ink-600"> (job {item.job.number})</span> : null}
+        {item.job ? (
+          <span className="text-ink-600">
+            {' '}
+            ({jobPath ? <Link className="underline" to={jobPath(item.job.id)}>job {item.job.number}</Link> : `job ${item.job.number}`})
+          </span>
+        ) : null}
       </p>
     </li>
   );

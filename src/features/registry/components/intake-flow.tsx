@@ -45,6 +45,7 @@ interface IntakeFlowProps {
   canAddCustomer: boolean;
   instrumentPath: (id: string) => string;
   labelPath: (id: string) => string;
+  jobPath?: (id: string) => string;
 }
 
 const emptyInstrument = (serial = ''): NewInstrumentInput => ({
@@ -57,7 +58,7 @@ const newKey = () => crypto.randomUUID();
  * The front desk's intake: find the instrument by serial (or register it), find or add the customer,
  * open the job. Each step keeps its answers when going back; the server does it all in one transaction.
  */
-export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCustomer, instrumentPath, labelPath }: IntakeFlowProps) {
+export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCustomer, instrumentPath, labelPath, jobPath }: IntakeFlowProps) {
   const queryClient = useQueryClient();
   const [step, setStep] = useState<Step>(initialInstrumentId ? 'customer' : 'instrument');
   const [query, setQuery] = useState('');
@@ -248,7 +249,7 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
       ) : null}
 
       {step === 'done' && submit.data ? (
-        <IntakeDone result={submit.data} shopName={shop.name} instrumentPath={instrumentPath} labelPath={labelPath} onAnother={restart} headingRef={headingRef} />
+        <IntakeDone result={submit.data} shopName={shop.name} instrumentPath={instrumentPath} labelPath={labelPath} jobPath={jobPath} onAnother={restart} headingRef={headingRef} />
       ) : null}
     </div>
   );
@@ -542,12 +543,13 @@ function JobForm({
 }
 
 function IntakeDone({
-  result, shopName, instrumentPath, labelPath, onAnother, headingRef,
+  result, shopName, instrumentPath, labelPath, jobPath, onAnother, headingRef,
 }: {
   result: IntakeResult;
   shopName: string;
   instrumentPath: (id: string) => string;
   labelPath: (id: string) => string;
+  jobPath?: (id: string) => string;
   onAnother: () => void;
   headingRef: RefObject<HTMLHeadingElement | null>;
 }) {
@@ -563,10 +565,11 @@ function IntakeDone({
       {result.warnings.map((w) => (
         <p key={w} role="note" className="rounded-lg bg-paper-100 px-3 py-2 text-sm text-ink-950">{w}</p>
       ))}
-      <div className="flex flex-col gap-3 sm:flex-row">
+      <div className="flex flex-col gap-3 sm:flex-row sm:flex-wrap">
+        {jobPath ? <ButtonLink to={jobPath(result.job.id)}>Open job {result.job.number}</ButtonLink> : null}
         <ButtonLink to={instrumentPath(result.instrument.id)} variant="secondary">See the instrument’s history</ButtonLink>
         <ButtonLink to={labelPath(result.instrument.id)} variant="secondary">Print its QR label</ButtonLink>
-        <Button onClick={onAnother}>Take in another</Button>
+        <Button variant="secondary" onClick={onAnother}>Take in another</Button>
       </div>
     </Card>
   );
