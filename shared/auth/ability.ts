@@ -94,6 +94,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can('read', 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
+    // Bench staff may call the customers their shop serves (the registry checks each serving shop as homeShopId).
+    can('read', 'CustomerContact', { homeShopId: { $in: bench } });
   }
 
   if (audited.length) {

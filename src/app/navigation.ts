@@ -12,6 +12,8 @@ export interface NavItem {
 // Only screens that exist are listed. Each new area adds its entry here and its route in router.tsx.
 export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
+  { to: '/registry', label: 'Registry', requires: { action: 'read', subject: 'Instrument' } },
+  { to: '/intake', label: 'Intake', requires: { action: 'create', subject: 'Job' } },
   { to: '/jobs', label: 'Job board', requires: { action: 'read', subject: 'Job' } },
   { to: '/bench', label: 'My bench', requires: { action: 'update', subject: 'Job' } },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },

@@ -9,6 +9,11 @@ import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
 import { SignInRoute } from './routes/sign-in';
 import { ShopsRoute } from './routes/shops';
+import { RegistryRoute } from './routes/registry';
+import { InstrumentRoute } from './routes/instrument';
+import { InstrumentLabelRoute } from './routes/instrument-label';
+import { IntakeRoute } from './routes/intake';
+import { RegistryImportRoute } from './routes/registry-import';
 import { JobBoardRoute } from './routes/job-board';
 import { MyBenchRoute } from './routes/my-bench';
 import { JobRoute } from './routes/job';
@@ -81,6 +86,46 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="read" subject="Attachment">
                 <InstrumentPhotosRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <RegistryRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/import',
+            element: (
+              <RequireAbility action="create" subject="Instrument">
+                <RegistryImportRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/instruments/:id',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <InstrumentRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/instruments/:id/label',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <InstrumentLabelRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'intake',
+            element: (
+              <RequireAbility action="create" subject="Job">
+                <IntakeRoute />
               </RequireAbility>
             ),
           },
