@@ -72,15 +72,23 @@ async function shiftReserved(networkId: string, shopId: string, partId: string, 
 
 /** Adds `delta` to a shop's count on hand; refuses to go below zero. */
 async function shiftOnHand(networkId: string, shopId: string, partId: string, delta: number, transaction: Transaction): Promise<boolean> {
-  const rows = await sequelize.query<{ on_hand: number }>(
-    `insert into stock_levels (network_id, shop_id, part_id, on_hand, reserved)
-     values (:networkId, :shopId, :partId, :delta, 0)
-     on conflict (network_id, shop_id, part_id)
-     do update set on_hand = stock_levels.on_hand + :delta, updated_at = now()
-       where stock_levels.on_hand + :delta >= 0
-     returning on_hand`,
-    { replacements: { networkId, shopId, partId, delta }, transaction, type: QueryTypes.SELECT },
-  );
+  // a CHECK applies to the row an INSERT proposes even when ON CONFLICT turns it into an update,
+  // so taking parts off the shelf is a plain guarded UPDATE
+  const sql =
+    delta < 0
+      ? `update stock_levels set on_hand = on_hand + :delta, updated_at = now()
+          where network_id = :networkId and shop_id = :shopId and part_id = :partId and on_hand + :delta >= 0
+          returning on_hand`
+      : `insert into stock_levels (network_id, shop_id, part_id, on_hand, reserved)
+         values (:networkId, :shopId, :partId, :delta, 0)
+         on conflict (network_id, shop_id, part_id)
+         do update set on_hand = stock_levels.on_hand + :delta, updated_at = now()
+         returning on_hand`;
+  const rows = await sequelize.query<{ on_hand: number }>(sql, {
+    replacements: { networkId, shopId, partId, delta },
+    transaction,
+    type: QueryTypes.SELECT,
+  });
   return rows.length > 0;
 }
 
