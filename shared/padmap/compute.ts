@@ -213,7 +213,7 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
     result.radialClearanceMm = clean((cup - pad.diameterMm) / 2);
 
     if (rim == null) {
-      add('rim_not_measured', 'info', 'rimDiameter', 'Rim not measured, so the seal overlap was not checked.');
+      add('rim_not_measured', 'info', 'rimDiameter', 'Seal not checked: no rim reading.');
     } else {
       const overlap = clean((pad.diameterMm - rim) / 2);
       result.rimOverlapMm = overlap;
@@ -300,6 +300,25 @@ export function laborEstimate(keys: KeyResult[], standardHours: number | null | 
   };
 }
 
+/** The instrument's totals from per-key results: parts list, stems, labor and counts. */
+export function summarizeKeys(keys: KeyResult[], catalog: PadCatalog, rules: PadRules, repadHours?: number | null): PadMapResult {
+  const stems = new Map<number, number>();
+  for (const key of keys) if (key.stemHeightMm != null) stems.set(key.stemHeightMm, (stems.get(key.stemHeightMm) ?? 0) + 1);
+  const findings = keys.flatMap((k) => k.findings);
+  return {
+    keys,
+    parts: partsListOf(keys, catalog),
+    stems: [...stems].sort(([a], [b]) => a - b).map(([heightMm, quantity]) => ({ heightMm, quantity })),
+    labor: laborEstimate(keys, repadHours, rules),
+    counts: {
+      measured: keys.filter((k) => k.status !== 'empty').length,
+      padsChosen: keys.filter((k) => k.padDiameterMm != null).length,
+      errors: findings.filter((f) => f.severity === 'error').length,
+      warnings: findings.filter((f) => f.severity === 'warning').length,
+    },
+  };
+}
+
 export function computePadMap(input: {
   entries: KeyMeasurement[];
   catalog: PadCatalog;
@@ -308,19 +327,5 @@ export function computePadMap(input: {
   repadHours?: number | null;
 }): PadMapResult {
   const keys = input.entries.map((entry) => computeKey(entry, input.catalog, input.rules));
-  const stems = new Map<number, number>();
-  for (const key of keys) if (key.stemHeightMm != null) stems.set(key.stemHeightMm, (stems.get(key.stemHeightMm) ?? 0) + 1);
-  const findings = keys.flatMap((k) => k.findings);
-  return {
-    keys,
-    parts: partsListOf(keys, input.catalog),
-    stems: [...stems].sort(([a], [b]) => a - b).map(([heightMm, quantity]) => ({ heightMm, quantity })),
-    labor: laborEstimate(keys, input.repadHours, input.rules),
-    counts: {
-      measured: keys.filter((k) => k.status !== 'empty').length,
-      padsChosen: keys.filter((k) => k.padDiameterMm != null).length,
-      errors: findings.filter((f) => f.severity === 'error').length,
-      warnings: findings.filter((f) => f.severity === 'warning').length,
-    },
-  };
+  return summarizeKeys(keys, input.catalog, input.rules, input.repadHours);
 }

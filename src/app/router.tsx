@@ -3,12 +3,15 @@ import { AppLayout } from './layout/app-layout';
 import { DevMailRoute } from './routes/dev-mail';
 import { HomeRoute } from './routes/home';
 import { NotFoundRoute } from './routes/not-found';
+import { PadMapRoute } from './routes/pad-map';
+import { PadRulesRoute } from './routes/pad-rules';
 import { PeopleRoute } from './routes/people';
 import { RequireAbility } from './routes/require-ability';
 import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
 import { SignInRoute } from './routes/sign-in';
 import { ShopsRoute } from './routes/shops';
+import { StockRoute } from './routes/stock';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -36,6 +39,30 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId/pad-map',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadMapRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'stock',
+            element: (
+              <RequireAbility action="read" subject="Stock">
+                <StockRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'pad-rules',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadRulesRoute />
               </RequireAbility>
             ),
           },

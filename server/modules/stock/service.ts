@@ -395,6 +395,7 @@ export async function listStock(actor: Actor, query: { shopId: string; kind?: 'p
     transfers: await partTransfersOf(actor.networkId, shop.id),
     can: {
       update: actor.ability.can('update', subjectOf(shop.id)),
+      pack: actor.ability.can('pack', subjectOf(shop.id)),
       request: actor.ability.can('request', subjectOf(shop.id)),
       receive: actor.ability.can('receive', subjectOf(shop.id)),
     },
