@@ -12,6 +12,8 @@ import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
 import { padmapsRouter } from './modules/padmaps/routes.js';
 import { stockRouter } from './modules/stock/routes.js';
+import { jobsRouter } from './modules/jobs/routes.js';
+import { filesRouter } from './modules/files/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -48,6 +50,8 @@ export function buildApp() {
   app.use(devRouter);
   app.use(padmapsRouter);
   app.use(stockRouter);
+  app.use(jobsRouter);
+  app.use(filesRouter);
 
   app.use('/api', notFoundHandler);
 

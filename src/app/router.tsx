@@ -12,6 +12,11 @@ import { SessionGate } from './routes/session-gate';
 import { SignInRoute } from './routes/sign-in';
 import { ShopsRoute } from './routes/shops';
 import { StockRoute } from './routes/stock';
+import { JobBoardRoute } from './routes/job-board';
+import { MyBenchRoute } from './routes/my-bench';
+import { JobRoute } from './routes/job';
+import { ServiceCatalogRoute } from './routes/service-catalog';
+import { InstrumentPhotosRoute } from './routes/instrument-photos';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -39,6 +44,46 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobBoardRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'bench',
+            element: (
+              <RequireAbility action="update" subject="Job">
+                <MyBenchRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'catalog',
+            element: (
+              <RequireAbility action="create" subject="ServiceCatalog">
+                <ServiceCatalogRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'instruments/:instrumentId/photos',
+            element: (
+              <RequireAbility action="read" subject="Attachment">
+                <InstrumentPhotosRoute />
               </RequireAbility>
             ),
           },

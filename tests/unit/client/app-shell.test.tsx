@@ -194,16 +194,18 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows People and Shops in the navigation for an owner', async () => {
+  it('shows the job screens, People, Shops, the service catalog, stock and pad rules in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'People', 'Shops', 'Stock', 'Pad rules']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual([
+      'Home', 'Job board', 'My bench', 'People', 'Shops', 'Service catalog', 'Stock', 'Pad rules',
+    ]);
   });
 
-  it('shows a technician only Home, and hides the owner screens even by address', async () => {
+  it('shows a technician Home and the job screens, and hides the owner screens even by address', async () => {
     renderApp('/people', technicianAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'Job board', 'My bench']);
     expect(within(nav).queryByRole('link', { name: 'People' })).not.toBeInTheDocument();
     expect(screen.getByRole('heading', { name: 'Page not found' })).toBeInTheDocument();
   });
