@@ -11,6 +11,8 @@ import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
 import { registryRouter } from './modules/registry/routes.js';
+import { padmapsRouter } from './modules/padmaps/routes.js';
+import { stockRouter } from './modules/stock/routes.js';
 import { jobsRouter } from './modules/jobs/routes.js';
 import { filesRouter } from './modules/files/routes.js';
 
@@ -48,6 +50,8 @@ export function buildApp() {
   app.use(networksRouter);
   app.use(devRouter);
   app.use(registryRouter);
+  app.use(padmapsRouter);
+  app.use(stockRouter);
   app.use(jobsRouter);
   app.use(filesRouter);
 
