@@ -10,6 +10,11 @@ import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
+import { registryRouter } from './modules/registry/routes.js';
+import { padmapsRouter } from './modules/padmaps/routes.js';
+import { stockRouter } from './modules/stock/routes.js';
+import { jobsRouter } from './modules/jobs/routes.js';
+import { filesRouter } from './modules/files/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -46,6 +51,11 @@ export function buildApp() {
   app.use(invitationsRouter);
   app.use(networksRouter);
   app.use(devRouter);
+  app.use(registryRouter);
+  app.use(padmapsRouter);
+  app.use(stockRouter);
+  app.use(jobsRouter);
+  app.use(filesRouter);
 
   app.use('/api', notFoundHandler);
 
