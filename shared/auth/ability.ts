@@ -65,8 +65,6 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
   if (managed.length) {
     // A regional manager reads the whole network's registry and jobs, and runs their own shops.
     can('read', ['Instrument', 'Job', 'Transfer', 'Attachment', 'PadMap', 'Shop', 'ServiceCatalog', 'RelayRun']);
-    // customers by name across the network (the registry); contact details only for their own shops
-    can('read', 'Customer');
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: managed } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: managed } });
     can(['create', 'update'], 'Instrument', { currentShopId: { $in: managed } });
@@ -80,7 +78,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
 
   if (desk.length) {
     // Front desk searches the whole registry (work history), but contact details only of their shops' customers.
-    can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog', 'Customer']);
+    can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
     can(['create', 'update'], 'Instrument', { currentShopId: { $in: desk } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: desk } });
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: desk } });
@@ -97,7 +95,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
 
   if (bench.length) {
     // Technicians work the bench at their shops and read the registry.
-    can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog', 'Customer']);
+    can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
     can(['update', 'move_stage'], 'Job', { shopId: { $in: bench } });
     can(['create', 'update', 'delete'], ['Attachment', 'PadMap'], { shopId: { $in: bench } });
     can('read', 'Stock', { shopId: { $in: bench } });

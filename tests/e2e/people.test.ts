@@ -74,12 +74,12 @@ describe('browser: per-shop roles from invitation to the screen', () => {
     expect(atBench).toContain('Move jobs through the bench stages');
     expect(atBench).toContain('Record pad maps');
     expect(atBench).not.toContain('Open jobs and write estimates');
-    expect(atBench).not.toContain('See customers’ contact details');
+    expect(atBench).not.toContain('Request transfers to other shops');
 
     await switcher.selectOption({ label: 'Harborline Chicago · Chicago' });
     const atDesk = await allowedAt(page, 'Harborline Chicago');
     expect(atDesk).toContain('Open jobs and write estimates');
-    expect(atDesk).toContain('See customers’ contact details');
+    expect(atDesk).toContain('Register customers');
     expect(atDesk).toContain('Request transfers to other shops');
     expect(atDesk).not.toContain('Record pad maps');
     // not an owner: no People screen

@@ -41,7 +41,7 @@ describe('what a person may do at each shop', () => {
     const atNorth = await screen.findByRole('list', { name: `Allowed at ${north.name}` });
     expect(within(atNorth).getByText('Move jobs through the bench stages')).toBeInTheDocument();
     expect(within(atNorth).queryByText('Open jobs and write estimates')).not.toBeInTheDocument();
-    expect(within(atNorth).queryByText('See customers’ contact details')).not.toBeInTheDocument();
+    expect(within(atNorth).queryByText('Request transfers to other shops')).not.toBeInTheDocument();
 
     fireEvent.change(screen.getByRole('combobox', { name: 'Shop' }), { target: { value: south.id } });
     const atSouth = await screen.findByRole('list', { name: `Allowed at ${south.name}` });
