@@ -1,6 +1,6 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
-import { AuditLog, Network, User, Membership, Shop, Skill, TechnicianSkill } from '../../lib/models.js';
+import { AuditLog, Invitation, Network, User, Membership, Shop, Skill, TechnicianSkill } from '../../lib/models.js';
 import { endSessionsOf, type Actor } from '../../lib/auth.js';
 import type { SignedInIdentity } from '../../lib/oidc.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
@@ -451,6 +451,13 @@ export async function deactivatePerson(actor: Actor, userId: string): Promise<{ 
     if (owners.includes(user.id) && owners.length <= 1) throw new AppError(409, 'last_owner', LAST_OWNER);
     await user.update({ active: false, deactivatedAt: new Date() }, { transaction });
     await audit(actor, 'person.deactivated', 'User', user.id, { active: true }, { active: false, deactivatedAt: user.deactivatedAt }, transaction);
+    // an open invitation would let them walk back in on their own; reactivating is the owner's call
+    const open = await Invitation.findAll({ where: { networkId: actor.networkId, email: user.email, acceptedAt: null, revokedAt: null }, transaction });
+    for (const inv of open) {
+      const before = { id: inv.id, email: inv.email, revokedAt: null };
+      await inv.update({ revokedAt: new Date() }, { transaction });
+      await audit(actor, 'invitation.revoked', 'Invitation', inv.id, before, { ...before, revokedAt: inv.revokedAt }, transaction);
+    }
     return personView(await loadPerson(actor, userId, true, transaction), true);
   });
   // after the commit, so a session cannot slip in between; loadActor refuses an inactive person anyway

@@ -170,6 +170,20 @@ describe('invitations', () => {
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(['email', 'roles.0.shopId']);
   });
 
+  it('deactivating a person withdraws their open invitation, so they cannot let themselves back in', async () => {
+    const email = `leaving-${uniq()}@example.test`;
+    const person = await makeUser(networkId, [], { email });
+    await invite(email, [{ shopId: seattle.id, role: 'front_desk' }]);
+    const token = tokenFrom(await mailTo(email));
+    await request(app).post(`/api/people/${person.id}/deactivate`).set('Cookie', ownerCookie).expect(200);
+    const { cookie } = await signInFollowing(app, email, `/invitations/${token}/accept`);
+    const res = await request(app).post('/api/invitations/accept').set('Cookie', cookie).send({ token });
+    expect(res.status).toBe(410);
+    expect(res.body.error.code).toBe('invitation_revoked');
+    await person.reload();
+    expect(person.active).toBe(false);
+  });
+
   it('an existing member accepting gains the new roles; a deactivated person invited again is active again', async () => {
     const email = `returning-${uniq()}@example.test`;
     const person = await makeUser(networkId, [], { email });
