@@ -6,7 +6,7 @@ import { config } from './config.js';
 import { sessionMiddleware, loadActor } from './lib/auth.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { healthReport } from './lib/health.js';
-import { authRouter, meRouter } from './modules/members/routes.js';
+import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
@@ -47,6 +47,8 @@ export function buildApp() {
 
   app.use(authRouter);
   app.use(meRouter);
+  app.use(peopleRouter);
+  app.use(invitationsRouter);
   app.use(networksRouter);
   app.use(devRouter);
   app.use(registryRouter);

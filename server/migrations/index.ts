@@ -1,5 +1,6 @@
 import type { QueryInterface } from 'sequelize';
 import * as initialSchema from './0001-initial-schema.js';
+import * as peopleAndInvitations from './0002-people-and-invitations.js';
 import * as partTransfers from './0005-part-transfers.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
@@ -10,5 +11,6 @@ type Step = (params: { context: QueryInterface }) => Promise<void>;
  */
 export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0001-initial-schema', ...initialSchema },
+  { name: '0002-people-and-invitations', ...peopleAndInvitations },
   { name: '0005-part-transfers', ...partTransfers },
 ];

@@ -1,6 +1,12 @@
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { AppLayout } from './layout/app-layout';
+import { AuditLogRoute } from './routes/audit-log';
 import { DevMailRoute } from './routes/dev-mail';
+import { AcceptInvitationRoute, InvitationRoute } from './routes/invitation';
+import { InviteRoute } from './routes/invite';
+import { PersonRoute } from './routes/person';
+import { ShopRoute } from './routes/shop';
+import { NewShopRoute } from './routes/shop-new';
 import { HomeRoute } from './routes/home';
 import { NotFoundRoute } from './routes/not-found';
 import { PeopleRoute } from './routes/people';
@@ -27,6 +33,9 @@ import { InstrumentPhotosRoute } from './routes/instrument-photos';
 export const routes: RouteObject[] = [
   { path: '/sign-in', element: <SignInRoute />, errorElement: <RouteErrorBoundary /> },
   { path: '/dev/mail', element: <DevMailRoute />, errorElement: <RouteErrorBoundary /> },
+  // an invitation is opened before its person holds any role, so it sits outside the session gate
+  { path: '/invitations/:token', element: <InvitationRoute />, errorElement: <RouteErrorBoundary /> },
+  { path: '/invitations/:token/accept', element: <AcceptInvitationRoute />, errorElement: <RouteErrorBoundary /> },
   {
     path: '/',
     element: <SessionGate />,
@@ -45,10 +54,50 @@ export const routes: RouteObject[] = [
             ),
           },
           {
+            path: 'people/invite',
+            element: (
+              <RequireAbility action="create" subject="Invitation">
+                <InviteRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'people/:id',
+            element: (
+              <RequireAbility action="manage" subject="Membership">
+                <PersonRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'audit-log',
+            element: (
+              <RequireAbility action="read" subject="AuditLog">
+                <AuditLogRoute />
+              </RequireAbility>
+            ),
+          },
+          {
             path: 'shops',
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'shops/new',
+            element: (
+              <RequireAbility action="create" subject="Shop">
+                <NewShopRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'shops/:id',
+            element: (
+              <RequireAbility action="manage" subject="Shop">
+                <ShopRoute />
               </RequireAbility>
             ),
           },
