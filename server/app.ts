@@ -10,6 +10,7 @@ import { authRouter, meRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
+import { reportsRouter } from './modules/reports/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -43,6 +44,7 @@ export function buildApp() {
   app.use(authRouter);
   app.use(meRouter);
   app.use(networksRouter);
+  app.use(reportsRouter);
   app.use(devRouter);
 
   app.use('/api', notFoundHandler);

@@ -82,6 +82,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['pack', 'receive'], 'Transfer', { fromShopId: { $in: desk } });
     can(['receive'], 'Transfer', { toShopId: { $in: desk } });
     can('read', 'Stock', { shopId: { $in: desk } });
+    // their shop's figures on the dashboard; the invoice export, because the counter releases and bills
+    can(['read', 'export'], 'Report', { shopId: { $in: desk } });
   }
 
   if (bench.length) {
@@ -92,6 +94,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can('read', 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
+    can('read', 'Report', { shopId: { $in: bench } });
   }
 
   if (audited.length) {
