@@ -80,6 +80,8 @@ export interface TransferInFlight {
   fromShopName: string;
   toShopId: string;
   toShopName: string;
+  /** arrival is shown on the destination's clock */
+  toShopTimeZone: string;
   departedAt: string | null;
   expectedArrivalAt: string | null;
   /** expected arrival has passed and nobody has received it */

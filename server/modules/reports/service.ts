@@ -140,7 +140,7 @@ export async function overdueJobs(scope: Scope, limit: number | null): Promise<{
 export async function transfersInFlight(scope: Scope, limit: number | null): Promise<{ total: number; late: number; items: TransferInFlight[] }> {
   const rows = await select<Record<string, unknown>>(
     `select t.id, t.job_id, j.number, i.family, i.serial,
-            t.from_shop_id, fs.name as from_name, t.to_shop_id, ts.name as to_name,
+            t.from_shop_id, fs.name as from_name, t.to_shop_id, ts.name as to_name, ts.time_zone as to_time_zone,
             t.departed_at, t.expected_arrival_at,
             coalesce(t.expected_arrival_at < cast(:asOf as timestamptz), false) as late,
             count(*) over () as total,
@@ -162,7 +162,7 @@ export async function transfersInFlight(scope: Scope, limit: number | null): Pro
     items: rows.map((r) => ({
       id: r.id as string, jobId: r.job_id as string, jobNumber: num(r.number), family: r.family as InstrumentFamily,
       serial: r.serial as string, fromShopId: r.from_shop_id as string, fromShopName: r.from_name as string,
-      toShopId: r.to_shop_id as string, toShopName: r.to_name as string, departedAt: iso(r.departed_at),
+      toShopId: r.to_shop_id as string, toShopName: r.to_name as string, toShopTimeZone: r.to_time_zone as string, departedAt: iso(r.departed_at),
       expectedArrivalAt: iso(r.expected_arrival_at), late: Boolean(r.late),
     })),
   };
