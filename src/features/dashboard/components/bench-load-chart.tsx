@@ -40,7 +40,7 @@ export function BenchLoadChart({ report }: { report: DashboardReport }) {
                     <XAxis type="number" unit=" h" tick={{ fill: '#3d444b', fontSize: 12 }} />
                     <YAxis type="category" dataKey="skill" width={140} tick={{ fill: '#3d444b', fontSize: 12 }} />
                     <Tooltip />
-                    <Legend wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
+                    <Legend itemSorter={null} wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
                     <Bar dataKey="open" name="Open work (h)" fill={SERIES.primary} isAnimationActive={false} />
                     <Bar dataKey="weekly" name="Weekly bench hours" fill={SERIES.secondary} isAnimationActive={false} />
                   </BarChart>

@@ -88,7 +88,7 @@ export function OpenJobsChart({ report }: { report: DashboardReport }) {
             <XAxis type="number" allowDecimals={false} tick={{ fill: '#3d444b', fontSize: 12 }} />
             <YAxis type="category" dataKey="shop" width={150} tick={{ fill: '#3d444b', fontSize: 12 }} />
             <Tooltip />
-            <Legend wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
+            <Legend itemSorter={null} wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
             {used.map((s) => (
               <Bar
                 key={s}

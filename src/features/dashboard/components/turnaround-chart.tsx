@@ -121,7 +121,7 @@ export function TurnaroundCharts({ report, shop }: { report: DashboardReport; sh
         <XAxis type="number" unit=" d" tick={{ fill: '#3d444b', fontSize: 12 }} />
         <YAxis type="category" dataKey="name" width={150} tick={{ fill: '#3d444b', fontSize: 12 }} />
         <Tooltip />
-        <Legend wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
+        <Legend itemSorter={null} wrapperStyle={{ fontSize: 12, color: '#3d444b' }} />
         <Bar dataKey="median" name="Median (business days)" fill={SERIES.median} isAnimationActive={false} />
         <Bar dataKey="p90" name="90th percentile (business days)" fill={SERIES.p90} isAnimationActive={false} />
       </BarChart>
