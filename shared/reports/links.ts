@@ -29,6 +29,8 @@ export const reportLinks = {
   overdue: (shop?: string) => `/reports/overdue${query({ scope: shop })}`,
   transfers: (shop?: string) => `/reports/transfers${query({ scope: shop })}`,
   jobs: ({ shop, ...rest }: JobListFilters) => `/reports/jobs${query({ scope: shop, ...rest })}`,
+  /** the job's own page on the job board */
+  job: (id: string) => `/jobs/${encodeURIComponent(id)}`,
 };
 
 export type CsvReportName = 'open-jobs' | 'overdue' | 'transfers' | 'bench-load' | 'turnaround' | 'weekly-intake' | 'jobs';

@@ -193,10 +193,11 @@ export async function benchLoad(scope: Scope): Promise<BenchLoadRow[]> {
             coalesce(w.open_jobs, 0) as open_jobs, coalesce(w.unestimated, 0) as unestimated
        from capacity c
        full join open_work w on w.shop_id = c.shop_id and w.skill_id = c.skill_id
-       join skills sk on sk.network_id = :networkId and sk.id = coalesce(c.skill_id, w.skill_id)
-      order by sk.name`,
+       join skills sk on sk.network_id = :networkId and sk.id = coalesce(c.skill_id, w.skill_id)`,
     { ...scope, benchStages: BENCH_STAGES },
   );
+  const shopOrder = (id: unknown) => scope.shopIds.indexOf(id as string);
+  rows.sort((a, b) => shopOrder(a.shop_id) - shopOrder(b.shop_id) || String(a.skill_name).localeCompare(String(b.skill_name)));
   return rows.map((r) => {
     const weekly = num(r.weekly);
     const open = num(r.open_hours);

@@ -87,7 +87,7 @@ function describeFilters(f: JobListFilters): string {
   const parts: string[] = [];
   if (f.stage === 'open') parts.push('every open job');
   else if (f.stage === 'bench' || (f.skill && !f.stage)) parts.push('open work waiting for the bench');
-  else if (f.stage) parts.push(`jobs at ${JOB_STAGE_LABELS[f.stage]}`);
+  else if (f.stage) parts.push(`jobs at the stage “${JOB_STAGE_LABELS[f.stage]}”`);
   if (f.skill) parts.push('needing the skill of the bench-load row you followed');
   if (f.family) parts.push(INSTRUMENT_FAMILY_LABELS[f.family].toLowerCase());
   if (f.readyWithin) parts.push(`that reached Ready in the last ${f.readyWithin} days`);

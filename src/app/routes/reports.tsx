@@ -19,6 +19,8 @@ import { InvoiceExport } from '@/features/reports/components/invoice-export';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { useReportScope } from './report-scope';
 
+const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+
 function Section({ id, title, description, csv, children }: { id: string; title: string; description?: ReactNode; csv: ReactNode; children: ReactNode }) {
   return (
     <Card as="section" aria-labelledby={id} className="flex flex-col gap-4">
@@ -62,15 +64,15 @@ export function ReportsRoute() {
         <Section
           id="overdue"
           title="Overdue promises"
-          description={`${report.overdue.total} jobs are past their promised date and not ready (each shop’s own calendar).`}
+          description={`${plural(report.overdue.total, 'job is', 'jobs are')} past the promised date and not ready (each shop’s own calendar).`}
           csv={<CsvLink href={csvLinks.report('overdue', shop)} description={`overdue promises, ${scopeName}`} />}
         >
-          <Link className={figureLink} to={reportLinks.overdue(shop)}>Open the list of {report.overdue.total} overdue jobs</Link>
+          <Link className={figureLink} to={reportLinks.overdue(shop)}>Open the list of overdue jobs</Link>
         </Section>
         <Section
           id="transfers"
           title="Transfers in flight"
-          description={`${report.transfersInFlight.total} instruments on the road, ${report.transfersInFlight.late} past their expected arrival.`}
+          description={`${plural(report.transfersInFlight.total, 'instrument', 'instruments')} on the road, ${report.transfersInFlight.late} past the expected arrival.`}
           csv={<CsvLink href={csvLinks.report('transfers', shop)} description={`transfers in flight, ${scopeName}`} />}
         >
           <Link className={figureLink} to={reportLinks.transfers(shop)}>Open the list of transfers in flight</Link>

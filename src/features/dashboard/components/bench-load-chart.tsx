@@ -83,10 +83,14 @@ export function BenchLoadTable({ report }: { report: DashboardReport }) {
                 {formatLoad(r.weeksOfWork)}
               </td>
               <td className={tdNum}>
-                <Link className={figureLink} to={reportLinks.jobs({ shop: r.shopId, skill: r.skillId })}>
-                  {r.openJobs}
-                  <span className="sr-only"> open {r.skillName} jobs at {shop?.name}</span>
-                </Link>
+                {r.openJobs > 0 ? (
+                  <Link className={figureLink} to={reportLinks.jobs({ shop: r.shopId, skill: r.skillId })}>
+                    {r.openJobs}
+                    <span className="sr-only"> open {r.skillName} jobs at {shop?.name}</span>
+                  </Link>
+                ) : (
+                  0
+                )}
               </td>
               <td className={tdNum}>{r.unestimatedJobs}</td>
             </tr>

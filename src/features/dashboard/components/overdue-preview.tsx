@@ -24,7 +24,7 @@ export function OverduePreview({ report, shop }: { report: DashboardReport; shop
           {oldest.map((j) => (
             <li key={j.id} className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1 py-2">
               <span className="text-ink-950">
-                <span className="font-semibold">Job {j.number}</span> · {INSTRUMENT_FAMILY_LABELS[j.family]} · {j.shopName}
+                <Link className={figureLink} to={reportLinks.job(j.id)}>Job {j.number}</Link> · {INSTRUMENT_FAMILY_LABELS[j.family]} · {j.shopName}
               </span>
               <span className="text-sm text-ink-600">
                 {JOB_STAGE_LABELS[j.stage]} · promised {formatIsoDate(j.promisedOn)} ·{' '}

@@ -24,7 +24,7 @@ export function TransfersPreview({ report, shop }: { report: DashboardReport; sh
           {items.slice(0, 5).map((t) => (
             <li key={t.id} className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-1 py-2">
               <span className="text-ink-950">
-                <span className="font-semibold">Job {t.jobNumber}</span> · {INSTRUMENT_FAMILY_LABELS[t.family]} · {t.fromShopName} → {t.toShopName}
+                <Link className={figureLink} to={reportLinks.job(t.jobId)}>Job {t.jobNumber}</Link> · {INSTRUMENT_FAMILY_LABELS[t.family]} · {t.fromShopName} → {t.toShopName}
               </span>
               <span className={t.late ? 'text-sm font-semibold text-danger-700' : 'text-sm text-ink-600'}>
                 {t.expectedArrivalAt ? `${t.late ? 'Was expected' : 'Expected'} ${formatInstantIn(t.expectedArrivalAt, t.toShopTimeZone)}` : 'No arrival time set'}

@@ -127,7 +127,7 @@ export function TurnaroundCharts({ report, shop }: { report: DashboardReport; sh
       </BarChart>
     );
 
-  const note = `Last ${days} days: ${w.overall.jobs} jobs reached Ready; median ${formatDays(w.overall.medianBusinessDays)}, 90th percentile ${formatDays(w.overall.p90BusinessDays)}.`;
+  const note = `Last ${days} days: ${w.overall.jobs} ${w.overall.jobs === 1 ? 'job' : 'jobs'} reached Ready; median ${formatDays(w.overall.medianBusinessDays)}, 90th percentile ${formatDays(w.overall.p90BusinessDays)}.`;
   return (
     <div className="grid grid-cols-1 gap-6 xl:grid-cols-2">
       <ChartFigure

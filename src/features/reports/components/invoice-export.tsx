@@ -19,7 +19,11 @@ const input = 'min-h-11 rounded-lg border border-paper-300 bg-white px-3 text-in
  */
 export function InvoiceExport({ shops }: InvoiceExportProps) {
   const today = localDateIn(new Date(), Intl.DateTimeFormat().resolvedOptions().timeZone);
-  const [from, setFrom] = useState(`${today.slice(0, 8)}01`);
+  // last month and this month so far: the usual span an accountant asks for
+  const [from, setFrom] = useState(() => {
+    const [y, m] = today.split('-').map(Number);
+    return m === 1 ? `${y - 1}-12-01` : `${y}-${String(m - 1).padStart(2, '0')}-01`;
+  });
   const [to, setTo] = useState(today);
   const [shop, setShop] = useState('');
   const [fields, setFields] = useState<Record<string, string>>({});

@@ -1,4 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
+import { reportLinks } from '@shared/reports/links';
+import { Link } from 'react-router-dom';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS } from '@shared/domain';
 import { formatIsoDate } from '@shared/reports/format';
 import { overdueQueryOptions } from '../queries';
@@ -35,7 +37,9 @@ export function OverdueTable({ shop }: { shop?: string }) {
               <tbody className="divide-y divide-paper-200">
                 {data.items.map((j) => (
                   <tr key={j.id}>
-                    <th scope="row" className={`${td} font-semibold text-ink-950`}>{j.number}</th>
+                    <th scope="row" className={`${td} font-semibold text-ink-950`}>
+                      <Link className="text-accent-700 underline underline-offset-2" to={reportLinks.job(j.id)}>{j.number}</Link>
+                    </th>
                     <td className={td}>{j.shopName}</td>
                     <td className={td}>
                       {INSTRUMENT_FAMILY_LABELS[j.family]} · {j.maker} {j.model ?? ''}

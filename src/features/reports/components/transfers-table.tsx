@@ -1,4 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
+import { reportLinks } from '@shared/reports/links';
+import { Link } from 'react-router-dom';
 import { INSTRUMENT_FAMILY_LABELS } from '@shared/domain';
 import { formatInstantIn } from '@shared/reports/format';
 import { transfersQueryOptions } from '../queries';
@@ -28,7 +30,9 @@ export function TransfersTable({ shop }: { shop?: string }) {
               <tbody className="divide-y divide-paper-200">
                 {data.items.map((t) => (
                   <tr key={t.id}>
-                    <th scope="row" className={`${td} font-semibold text-ink-950`}>{t.jobNumber}</th>
+                    <th scope="row" className={`${td} font-semibold text-ink-950`}>
+                      <Link className="text-accent-700 underline underline-offset-2" to={reportLinks.job(t.jobId)}>{t.jobNumber}</Link>
+                    </th>
                     <td className={td}>
                       {INSTRUMENT_FAMILY_LABELS[t.family]}
                       <span className="block text-xs text-ink-600">Serial {t.serial}</span>
