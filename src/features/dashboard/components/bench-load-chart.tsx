@@ -84,9 +84,8 @@ export function BenchLoadTable({ report }: { report: DashboardReport }) {
               </td>
               <td className={tdNum}>
                 {r.openJobs > 0 ? (
-                  <Link className={figureLink} to={reportLinks.jobs({ shop: r.shopId, skill: r.skillId })}>
+                  <Link className={figureLink} to={reportLinks.jobs({ shop: r.shopId, skill: r.skillId })} aria-label={`${r.openJobs} open ${r.skillName} jobs at ${shop?.name}`}>
                     {r.openJobs}
-                    <span className="sr-only"> open {r.skillName} jobs at {shop?.name}</span>
                   </Link>
                 ) : (
                   0

@@ -39,9 +39,8 @@ export function OpenJobsTable({ report }: { report: DashboardReport }) {
             {OPEN_STAGES.map((s) => (
               <td key={s} className={tdNum}>
                 {Number(r[s]) > 0 ? (
-                  <Link className={figureLink} to={reportLinks.jobs({ shop: String(r.shopId), stage: s })}>
+                  <Link className={figureLink} to={reportLinks.jobs({ shop: String(r.shopId), stage: s })} aria-label={`${r[s]} ${JOB_STAGE_LABELS[s]} at ${r.shop}`}>
                     {r[s]}
-                    <span className="sr-only"> {JOB_STAGE_LABELS[s]} at {r.shop}</span>
                   </Link>
                 ) : (
                   0
@@ -49,9 +48,8 @@ export function OpenJobsTable({ report }: { report: DashboardReport }) {
               </td>
             ))}
             <td className={tdNum}>
-              <Link className={figureLink} to={reportLinks.jobs({ shop: String(r.shopId), stage: 'open' })}>
+              <Link className={figureLink} to={reportLinks.jobs({ shop: String(r.shopId), stage: 'open' })} aria-label={`${r.total} open at ${r.shop}`}>
                 {r.total}
-                <span className="sr-only"> open at {r.shop}</span>
               </Link>
             </td>
           </tr>

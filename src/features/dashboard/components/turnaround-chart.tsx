@@ -55,9 +55,8 @@ export function TurnaroundTable({ report, days, by, shop }: TurnaroundTableProps
           <tr key={r.name}>
             <th scope="row" className={`${td} font-semibold text-ink-950`}>{r.name}</th>
             <td className={tdNum}>
-              <Link className={figureLink} to={reportLinks.jobs(r.filters)}>
+              <Link className={figureLink} to={reportLinks.jobs(r.filters)} aria-label={`${r.jobs} jobs ready in ${days} days, ${r.name}`}>
                 {r.jobs}
-                <span className="sr-only"> jobs ready in {days} days, {r.name}</span>
               </Link>
             </td>
             <td className={tdNum}>{formatDays(r.medianBusinessDays)}</td>

@@ -68,9 +68,8 @@ export function WeeklyIntakeTable({ report, shop }: { report: DashboardReport; s
             <th scope="row" className={`${td} font-semibold text-ink-950`}>{formatIsoDate(w.weekStart)}</th>
             <td className={tdNum}>
               {w.total > 0 ? (
-                <Link className={figureLink} to={reportLinks.jobs({ shop, week: w.weekStart })}>
+                <Link className={figureLink} to={reportLinks.jobs({ shop, week: w.weekStart })} aria-label={`${w.total} taken in the week of ${formatIsoDate(w.weekStart)}`}>
                   {w.total}
-                  <span className="sr-only"> taken in the week of {formatIsoDate(w.weekStart)}</span>
                 </Link>
               ) : (
                 0
