@@ -13,15 +13,22 @@ export const WEEKLY_INTAKE_WEEKS = 52;
 /** The most rows a list report answers with; the total is always given, the CSV has every row. */
 export const REPORT_LIST_LIMIT = 200;
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-08-31.');
+const isoDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-08-31.')
+  // a real calendar date: 2026-02-30 is refused here rather than by the database
+  .refine((v) => !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) && new Date(`${v}T00:00:00Z`).toISOString().startsWith(v), 'That date does not exist.');
 const optionalUuid = z.preprocess((v) => (v === '' ? undefined : v), z.uuid('Not a shop of this network.').optional());
 
 export const reportScopeQuerySchema = z.object({ shop: optionalUuid });
 export type ReportScopeQuery = z.infer<typeof reportScopeQuerySchema>;
 
-/** The list behind a figure: open jobs at a stage, of a skill, of a family, finished in a window, taken in one week. */
+/**
+ * The list behind a figure: open jobs at a stage, of a skill, of a family, finished in a window, taken in one week.
+ * `stage=open` is every stage but released; `stage=bench` the stages whose hours count as bench load.
+ */
 export const jobListQuerySchema = reportScopeQuerySchema.extend({
-  stage: z.preprocess((v) => (v === '' ? undefined : v), z.enum([...ALL_JOB_STAGES, 'open'] as [string, ...string[]]).optional()),
+  stage: z.preprocess((v) => (v === '' ? undefined : v), z.enum([...ALL_JOB_STAGES, 'open', 'bench'] as [string, ...string[]]).optional()),
   skill: optionalUuid,
   family: z.preprocess((v) => (v === '' ? undefined : v), z.enum(INSTRUMENT_FAMILIES).optional()),
   /** jobs that reached Ready in the last N days (the turnaround sample) */

@@ -156,7 +156,10 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
 
     // 52 weeks, every week present; the job taken in 400 days ago is outside
     expect(d.weeklyIntake).toHaveLength(52);
-    expect(d.weeklyIntake.reduce((a, w) => a + w.total, 0)).toBe(11);
+    // nine jobs opened in the last 100 days, plus the two billed jobs while February 2026 is within the 52 weeks
+    const firstWeek = Date.parse(`${d.weeklyIntake[0].weekStart}T00:00:00Z`);
+    const billedInWindow = [Date.parse('2026-02-20T17:00:00Z'), Date.parse('2026-02-25T17:00:00Z')].filter((t) => t >= firstWeek).length;
+    expect(d.weeklyIntake.reduce((a, w) => a + w.total, 0)).toBe(9 + billedInWindow);
     expect(new Date(`${d.weeklyIntake[0].weekStart}T00:00:00Z`).getUTCDay()).toBe(1); // Mondays
   });
 
@@ -200,6 +203,9 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     await get('owner', `/api/reports/dashboard?shop=${ids.otherShop}`).expect(404);
     const bad = await get('owner', '/api/reports/dashboard?shop=not-a-shop').expect(400);
     expect(bad.body.error.fields.shop).toBeTruthy();
+    const badWeek = await get('owner', '/api/reports/jobs?week=2026-02-30').expect(400);
+    expect(badWeek.body.error.fields.week).toBe('That date does not exist.');
+    await get('owner', '/api/reports/jobs?stage=sideways').expect(400);
     await get(null, '/api/reports/dashboard').expect(401);
     await get(null, '/api/reports/overdue.csv').expect(401);
   });
@@ -214,6 +220,8 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     expect(idsOf(await list('owner', `shop=${ids.A}&skill=${ids.woodwind}`))).toEqual([ids.a1, ids.a2].sort());
     expect((await list('owner', `shop=${ids.A}&stage=open`)).total).toBe(6);
     expect((await list('owner', 'family=trumpet&stage=open')).total).toBe(2);
+    // stage=bench is the bench-load stages: not ready (a3) and not on the road (a7)
+    expect(idsOf(await list('owner', `shop=${ids.A}&stage=bench`))).toEqual([ids.a1, ids.a2, ids.a5, ids.a6].sort());
     // front desk at Alder asking for every open job gets Alder's only
     const desk = await list('desk', 'stage=open');
     expect(desk.total).toBe(6);
