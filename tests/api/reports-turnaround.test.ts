@@ -61,12 +61,14 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
       const openedAt = new Date(readyAt.getTime() - (3 * HOUR + rand() * 30 * DAY));
       jobs.push({ shopId: i % 2 ? ny.id : tokyo.id, family: families[i % 3], openedAt, readyAt });
     }
-    // Known answers, by hand: UTC, Monday–Friday, ready on Monday 2026-11-23 (a week before "now" or more).
-    // Intake on Mon 16 Nov → 5 business days; Tue 17 → 4; Thu 19 → 2; Fri 20 → 1; Mon 9 Nov → 10.
+    // Known answers, by hand: UTC, Monday–Friday, ready on a Monday at least two weeks back. Taken in on
+    // the Monday before → 5 business days; Tuesday → 4; Thursday → 2; Friday → 1; two Mondays before → 10.
     // Sorted [1, 2, 4, 5, 10]: median 4; p90 at rank 0.9 × 4 = 3.6 → 5 + 0.6 × (10 − 5) = 8.
-    const handReady = new Date('2026-11-23T15:00:00Z');
-    for (const opened of ['2026-11-16T09:00:00Z', '2026-11-17T09:00:00Z', '2026-11-19T09:00:00Z', '2026-11-20T09:00:00Z', '2026-11-09T09:00:00Z']) {
-      jobs.push({ shopId: hand.id, family: 'oboe', openedAt: new Date(opened), readyAt: handReady });
+    const twoWeeksAgo = new Date(now - 14 * DAY);
+    const monday = Date.UTC(twoWeeksAgo.getUTCFullYear(), twoWeeksAgo.getUTCMonth(), twoWeeksAgo.getUTCDate() - ((twoWeeksAgo.getUTCDay() + 6) % 7));
+    const handReady = new Date(monday + 15 * HOUR);
+    for (const daysBefore of [7, 6, 4, 3, 14]) {
+      jobs.push({ shopId: hand.id, family: 'oboe', openedAt: new Date(monday - daysBefore * DAY + 9 * HOUR), readyAt: handReady });
     }
 
     let number = 700_000 + Math.floor(Math.random() * 1_000_000);
