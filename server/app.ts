@@ -11,6 +11,9 @@ import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
 import { reportsRouter } from './modules/reports/routes.js';
+import { registryRouter } from './modules/registry/routes.js';
+import { jobsRouter } from './modules/jobs/routes.js';
+import { filesRouter } from './modules/files/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -46,6 +49,9 @@ export function buildApp() {
   app.use(networksRouter);
   app.use(reportsRouter);
   app.use(devRouter);
+  app.use(registryRouter);
+  app.use(jobsRouter);
+  app.use(filesRouter);
 
   app.use('/api', notFoundHandler);
 

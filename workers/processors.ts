@@ -2,6 +2,8 @@ import type { Job } from 'bullmq';
 import { sendMail } from '../server/lib/mail.js';
 import { createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
+import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
+import { deliverOutboxMessage } from '../server/modules/notifications/service.js';
 
 /**
  * Each queued job names what it does; the processor calls the same service functions the routes use.
@@ -12,6 +14,15 @@ export const processors = {
     const messageId = await sendMail(job.data);
     return { messageId };
   },
+  // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed
+  'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
+    makeThumbnail(job.data.networkId, job.data.attachmentId),
+  // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed
+  'expire-upload': async (job: Job<{ networkId: string; attachmentId: string }>) =>
+    expireUpload(job.data.networkId, job.data.attachmentId),
+  // job id `outbox-<outboxId>`: one delivery per outbox row
+  'deliver-outbox': async (job: Job<{ networkId: string; outboxId: string }>) =>
+    deliverOutboxMessage(job.data.networkId, job.data.outboxId),
 } satisfies Record<string, (job: Job<never>) => Promise<unknown>>;
 
 export type JobName = keyof typeof processors;

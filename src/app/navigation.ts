@@ -14,8 +14,13 @@ export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
   { to: '/dashboard', label: 'Dashboard', requires: { action: 'read', subject: 'Report' } },
   { to: '/reports', label: 'Reports', requires: { action: 'read', subject: 'Report' } },
+  { to: '/registry', label: 'Registry', requires: { action: 'read', subject: 'Instrument' } },
+  { to: '/intake', label: 'Intake', requires: { action: 'create', subject: 'Job' } },
+  { to: '/jobs', label: 'Job board', requires: { action: 'read', subject: 'Job' } },
+  { to: '/bench', label: 'My bench', requires: { action: 'update', subject: 'Job' } },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
+  { to: '/catalog', label: 'Service catalog', requires: { action: 'create', subject: 'ServiceCatalog' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {

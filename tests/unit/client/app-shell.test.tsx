@@ -194,16 +194,18 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows the dashboard, reports, People and Shops in the navigation for an owner', async () => {
+  it('shows the dashboard, reports, registry, intake, job screens, People, Shops and the service catalog in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'Dashboard', 'Reports', 'People', 'Shops']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual([
+      'Home', 'Dashboard', 'Reports', 'Registry', 'Intake', 'Job board', 'My bench', 'People', 'Shops', 'Service catalog',
+    ]);
   });
 
-  it('shows a technician only Home, and hides the owner screens even by address', async () => {
+  it('shows a technician Home, the registry and the job screens, and hides intake and the owner screens even by address', async () => {
     renderApp('/people', technicianAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'Registry', 'Job board', 'My bench']);
     expect(within(nav).queryByRole('link', { name: 'People' })).not.toBeInTheDocument();
     expect(screen.getByRole('heading', { name: 'Page not found' })).toBeInTheDocument();
   });
