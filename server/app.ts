@@ -12,6 +12,8 @@ import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
 import { reportsRouter } from './modules/reports/routes.js';
 import { registryRouter } from './modules/registry/routes.js';
+import { padmapsRouter } from './modules/padmaps/routes.js';
+import { stockRouter } from './modules/stock/routes.js';
 import { jobsRouter } from './modules/jobs/routes.js';
 import { filesRouter } from './modules/files/routes.js';
 
@@ -50,6 +52,8 @@ export function buildApp() {
   app.use(reportsRouter);
   app.use(devRouter);
   app.use(registryRouter);
+  app.use(padmapsRouter);
+  app.use(stockRouter);
   app.use(jobsRouter);
   app.use(filesRouter);
 

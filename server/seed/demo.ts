@@ -12,6 +12,7 @@ import {
   Membership,
   Network,
   Notification,
+  PadMap,
   Part,
   RelayRun,
   ServiceCatalogItem,
@@ -27,6 +28,8 @@ import {
   sequelize,
 } from '../lib/models.js';
 import { demoPeople } from './demo-people.js';
+import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
+import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
 
 /**
  * The demo network: an invented chain of five band-instrument repair shops with people in every
@@ -853,6 +856,53 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   });
   await HistoryEvent.bulkCreate(history, t);
 
+  // Pad maps of earlier repads of Aldmoor AS-300 altos, so the network has sizes to suggest for the
+  // next AS-300 and the next repad of each of these serials starts from its map. The nominal cups
+  // are invented; each horn varies a little around them.
+  const AS300_CUPS: Record<string, [cup: number, depth: number]> = {
+    low_bb: [45.8, 4.4], low_b: [45.3, 4.4], low_cs: [26.6, 3.8], low_c: [42.4, 4.3], low_eb: [27.3, 3.8], d: [36.8, 4.1],
+    c: [33.2, 4.0], b: [25.6, 3.7], a: [26.2, 3.7], g: [24.4, 3.6], gs: [17.8, 3.3], f: [31.3, 3.9], e: [33.6, 4.0], fs: [20.2, 3.4],
+    bis_bb: [9.8, 2.8], side_bb: [14.2, 3.0], side_c: [14.7, 3.0], high_e: [14.1, 3.0], high_fs: [11.6, 2.9], palm_d: [16.3, 3.1],
+    palm_eb: [15.6, 3.1], palm_f: [15.1, 3.1], front_f: [11.1, 2.9], octave_body: [7.2, 2.6], octave_neck: [8.3, 2.6],
+  };
+  const padCatalog: PadCatalog = { self_leveling: [], glued: [] };
+  for (const p of partRows) {
+    if (p.kind !== 'pad' || !p.padKind) continue;
+    padCatalog[p.padKind as 'glued' | 'self_leveling'].push({ diameterMm: Number(p.diameterMm), thicknessMm: Number(p.thicknessMm), partId: p.id!, sku: p.sku, name: p.name, unitPriceCents: p.unitPriceCents });
+  }
+  const round2 = (n: number) => Math.round(n * 100) / 100;
+  const padMapRows: Array<CreationAttributes<PadMap>> = [];
+  const padMapEvents: Array<CreationAttributes<HistoryEvent>> = [];
+  for (const key of ['alto1', 'alto3', 'alto7', 'alto9', 'alto10']) {
+    const visit = planned.filter((j) => j.inst.key === key && j.stage === 'released').at(-1);
+    if (!visit) continue;
+    const entries = Object.entries(AS300_CUPS).map(([keyId, [cup, depth]]) => {
+      const cupMm = round2(cup + (rand() - 0.5) * 0.3);
+      const depthMm = round2(depth + (rand() - 0.5) * 0.2);
+      const rimMm = round2(cupMm - 2.6 - rand() * 0.8);
+      return {
+        keyId, keyName: null, padKind: 'glued' as const, floor: 'flat' as const, cupDiameterMm: cupMm, cupDepthMm: depthMm, rimDiameterMm: rimMm,
+        typed: { cupDiameter: String(cupMm), cupDepth: String(depthMm), rimDiameter: String(rimMm) },
+      };
+    });
+    const result = computePadMap({ entries, catalog: padCatalog, rules: DEFAULT_PAD_RULES });
+    const at = new Date(visit.path.find(([s]) => s === 'on_bench')?.[1] ?? visit.openedAt);
+    const by = visit.assignee ? userId[visit.assignee] : userId.owner;
+    const id = randomUUID();
+    padMapRows.push({
+      id, networkId, instrumentId: instrumentId.get(key)!, jobId: visit.id, shopId: shopId[visit.shop], unitSystem: 'mm',
+      entries: entries as unknown as Array<Record<string, unknown>>, results: result.keys as unknown as Array<Record<string, unknown>>,
+      createdByUserId: by, createdAt: at, updatedAt: at,
+    });
+    padMapEvents.push({
+      networkId, instrumentId: instrumentId.get(key)!, jobId: visit.id, shopId: shopId[visit.shop], userId: by, kind: 'pad_map_saved',
+      summary: `Pad map saved at ${SHOP_NAME[visit.shop]}: ${result.counts.padsChosen} pads (0 self-leveling, ${result.counts.padsChosen} glued)`,
+      data: { padMapId: id, pads: result.counts.padsChosen }, occurredAt: at,
+    });
+  }
+  await PadMap.bulkCreate(padMapRows, t);
+  await HistoryEvent.bulkCreate(padMapEvents, t);
+
   // a few notices so the inbox is not empty
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
   await Notification.bulkCreate(
@@ -967,7 +1017,7 @@ export async function countNetworkRows(networkId: string): Promise<Record<string
   const tables = [
     'shops', 'skills', 'shop_skills', 'relay_runs', 'users', 'memberships', 'technician_skills', 'service_catalog',
     'parts', 'stock_levels', 'stock_reservations', 'customers', 'instruments', 'jobs', 'job_line_items', 'time_logs',
-    'history_events', 'transfers', 'notifications',
+    'history_events', 'transfers', 'notifications', 'pad_maps',
   ];
   const [rows] = await sequelize.query(
     tables.map((tb) => `select '${tb}' as t, count(*)::int as n from ${tb} where network_id = :networkId`).join(' union all '),

@@ -94,6 +94,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['update', 'move_stage'], 'Job', { shopId: { $in: bench } });
     can(['create', 'update', 'delete'], ['Attachment', 'PadMap'], { shopId: { $in: bench } });
     can('read', 'Stock', { shopId: { $in: bench } });
+    // a saved pad map can leave the bench short: technicians ask another shop for parts and take them in
+    can(['request', 'receive'], 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
     can('read', 'Report', { shopId: { $in: bench } });

@@ -21,6 +21,8 @@ export const navItems: NavItem[] = [
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
   { to: '/catalog', label: 'Service catalog', requires: { action: 'create', subject: 'ServiceCatalog' } },
+  { to: '/stock', label: 'Stock', requires: { action: 'read', subject: 'Stock' } },
+  { to: '/pad-rules', label: 'Pad rules', requires: { action: 'update', subject: 'Network' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {

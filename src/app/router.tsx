@@ -17,6 +17,9 @@ import { InstrumentRoute } from './routes/instrument';
 import { InstrumentLabelRoute } from './routes/instrument-label';
 import { IntakeRoute } from './routes/intake';
 import { RegistryImportRoute } from './routes/registry-import';
+import { PadMapRoute } from './routes/pad-map';
+import { PadRulesRoute } from './routes/pad-rules';
+import { StockRoute } from './routes/stock';
 import { JobBoardRoute } from './routes/job-board';
 import { MyBenchRoute } from './routes/my-bench';
 import { JobRoute } from './routes/job';
@@ -103,6 +106,30 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="read" subject="Attachment">
                 <InstrumentPhotosRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId/pad-map',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadMapRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'stock',
+            element: (
+              <RequireAbility action="read" subject="Stock">
+                <StockRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'pad-rules',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadRulesRoute />
               </RequireAbility>
             ),
           },
