@@ -10,6 +10,7 @@ import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
+import { reportsRouter } from './modules/reports/routes.js';
 import { registryRouter } from './modules/registry/routes.js';
 import { padmapsRouter } from './modules/padmaps/routes.js';
 import { stockRouter } from './modules/stock/routes.js';
@@ -50,6 +51,7 @@ export function buildApp() {
   app.use(peopleRouter);
   app.use(invitationsRouter);
   app.use(networksRouter);
+  app.use(reportsRouter);
   app.use(devRouter);
   app.use(registryRouter);
   app.use(padmapsRouter);

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { CreationAttributes, Transaction } from 'sequelize';
+import { QueryTypes, type CreationAttributes, type Transaction } from 'sequelize';
 import { JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind, type Role } from '../../shared/domain.js';
 import {
   Customer,
@@ -918,7 +918,98 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     t,
   );
 
+  await addSummerRentalRush(transaction, now, {
+    networkId, shopId, laborRate: (code) => shopByCode[code].laborRateCents, catalogId, catalogByKey, skillId,
+    deskFor: (code) => userId[deskFor(code)], fleetCustomerId: customerId.FLEET,
+  });
+
   return networkId;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The late-summer school-rental rush: before the school year the rental fleet comes back in waves for
+// inspection, so the weekly intake chart shows a ridge from late July into early September.
+
+interface RushContext {
+  networkId: string;
+  shopId: Record<ShopCode, string>;
+  laborRate: (code: ShopCode) => number;
+  catalogId: Record<CatalogKey, string>;
+  catalogByKey: Record<CatalogKey, { name: string; hours: number; skill: SkillCode }>;
+  skillId: Record<SkillCode, string>;
+  deskFor: (code: ShopCode) => string;
+  fleetCustomerId: string;
+}
+
+/** Rental returns per week, starting the third week of July: a ramp up and a tail off. */
+const RUSH_WEEKS = [2, 4, 7, 11, 14, 12, 8, 4];
+const RUSH_FAMILIES: Array<{ family: InstrumentFamily; maker: MakerKey; model: string; service: CatalogKey }> = [
+  { family: 'flute', maker: 'Q', model: 'Q-100 Student', service: 'leak_test' },
+  { family: 'clarinet', maker: 'O', model: 'Student 2', service: 'play_woodwind' },
+  { family: 'alto_saxophone', maker: 'A', model: 'AS-300', service: 'play_woodwind' },
+  { family: 'trumpet', maker: 'B', model: 'BT-200', service: 'chem_clean' },
+  { family: 'trombone', maker: 'B', model: 'BT-40', service: 'slide_align' },
+];
+
+async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: RushContext): Promise<void> {
+  const t = { transaction };
+  const rand = prng(20_260_720);
+  // the most recent rush that is over: the third Monday of July of this year, or last year's
+  let year = now.getUTCFullYear();
+  if (now.getTime() < Date.UTC(year, 8, 20)) year -= 1;
+  const julyFirst = new Date(Date.UTC(year, 6, 1, 16));
+  const firstMonday = new Date(julyFirst.getTime() + ((8 - (julyFirst.getUTCDay() || 7)) % 7) * DAY);
+  const start = new Date(firstMonday.getTime() + 14 * DAY);
+
+  const [{ max }] = await sequelize.query<{ max: number }>('select coalesce(max(number), 1000)::int as max from jobs where network_id = :networkId', {
+    ...t, type: QueryTypes.SELECT, replacements: { networkId: ctx.networkId },
+  });
+  let number = max + 1;
+  const rushShops: ShopCode[] = ['SEA', 'SEA', 'PDX', 'SAC', 'DEN', 'CHI'];
+  const instruments: Array<CreationAttributes<Instrument>> = [];
+  const jobs: Array<CreationAttributes<Job>> = [];
+  const lines: Array<CreationAttributes<JobLineItem>> = [];
+  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  let n = 0;
+  RUSH_WEEKS.forEach((count, week) => {
+    for (let i = 0; i < count; i++, n++) {
+      const kind = RUSH_FAMILIES[n % RUSH_FAMILIES.length];
+      const shop = rushShops[n % rushShops.length];
+      const instrumentId = randomUUID();
+      const jobId = randomUUID();
+      const openedAt = new Date(start.getTime() + week * 7 * DAY + Math.floor(rand() * 5) * DAY + Math.floor(rand() * 8) * HOUR);
+      const readyAt = new Date(openedAt.getTime() + (0.5 + rand() * 4) * DAY);
+      const releasedAt = new Date(readyAt.getTime() + (0.5 + rand() * 3) * DAY);
+      const cat = ctx.catalogByKey[kind.service];
+      instruments.push({
+        id: instrumentId, networkId: ctx.networkId, family: kind.family, maker: MAKERS[kind.maker].name, model: kind.model,
+        serial: `RR-${year}-${String(n + 1).padStart(3, '0')}`, ownerKind: 'rental_fleet', ownerCustomerId: ctx.fleetCustomerId,
+        currentShopId: ctx.shopId[shop], status: 'in_service', assetTag: `HBR-R${year}-${String(n + 1).padStart(3, '0')}`,
+        yearMade: 2015 + (n % 9),
+      });
+      jobs.push({
+        id: jobId, networkId: ctx.networkId, number: number++, instrumentId, shopId: ctx.shopId[shop], customerId: ctx.fleetCustomerId,
+        stage: 'released', complaint: 'Rental return: inspection before the school year.', conditionNotes: 'Normal rental wear.',
+        promisedOn: localDate(new Date(openedAt.getTime() + 5 * DAY), SHOPS.find((x) => x.code === shop)!.timeZone), requiredSkillId: ctx.skillId[cat.skill],
+        estimatedHours: cat.hours, estimateApprovedAt: openedAt, estimateApprovedByName: 'Rental desk', estimateApprovalMethod: 'email',
+        openedByUserId: ctx.deskFor(shop), openedAt, readyAt, releasedAt,
+      });
+      lines.push({
+        networkId: ctx.networkId, jobId, kind: 'labor', catalogItemId: ctx.catalogId[kind.service], description: cat.name,
+        hours: cat.hours, rateCents: ctx.laborRate(shop), position: 0,
+      });
+      const by = ctx.deskFor(shop);
+      history.push(
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'intake', summary: 'Checked in: rental return inspection', data: {}, occurredAt: openedAt },
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'stage_changed', summary: `Job ${number - 1}: intake → ready`, data: { from: 'intake', to: 'ready' }, occurredAt: readyAt },
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'stage_changed', summary: `Job ${number - 1}: ready → released`, data: { from: 'ready', to: 'released' }, occurredAt: releasedAt },
+      );
+    }
+  });
+  await Instrument.bulkCreate(instruments, t);
+  await Job.bulkCreate(jobs, t);
+  await JobLineItem.bulkCreate(lines, t);
+  await HistoryEvent.bulkCreate(history, t);
 }
 
 /** Row counts of the demo network, table by table (for the script's report and for checks). */

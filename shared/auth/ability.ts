@@ -91,6 +91,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['pack', 'receive'], 'Transfer', { fromShopId: { $in: desk } });
     can(['receive'], 'Transfer', { toShopId: { $in: desk } });
     can('read', 'Stock', { shopId: { $in: desk } });
+    // their shop's figures on the dashboard; the invoice export, because the counter releases and bills
+    can(['read', 'export'], 'Report', { shopId: { $in: desk } });
   }
 
   if (bench.length) {
@@ -103,6 +105,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['request', 'receive'], 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
+    can('read', 'Report', { shopId: { $in: bench } });
     // Bench staff may call the customers their shop serves (the registry checks each serving shop as homeShopId).
     can('read', 'CustomerContact', { homeShopId: { $in: bench } });
   }

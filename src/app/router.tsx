@@ -1,6 +1,7 @@
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { AppLayout } from './layout/app-layout';
 import { AuditLogRoute } from './routes/audit-log';
+import { DashboardRoute } from './routes/dashboard';
 import { DevMailRoute } from './routes/dev-mail';
 import { AcceptInvitationRoute, InvitationRoute } from './routes/invitation';
 import { InviteRoute } from './routes/invite';
@@ -10,6 +11,8 @@ import { NewShopRoute } from './routes/shop-new';
 import { HomeRoute } from './routes/home';
 import { NotFoundRoute } from './routes/not-found';
 import { PeopleRoute } from './routes/people';
+import { OverdueRoute, ReportJobsRoute, TransfersInFlightRoute } from './routes/report-lists';
+import { ReportsRoute } from './routes/reports';
 import { RequireAbility } from './routes/require-ability';
 import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
@@ -85,6 +88,20 @@ export const routes: RouteObject[] = [
               </RequireAbility>
             ),
           },
+          ...[
+            { path: 'dashboard', element: <DashboardRoute /> },
+            { path: 'reports', element: <ReportsRoute /> },
+            { path: 'reports/overdue', element: <OverdueRoute /> },
+            { path: 'reports/transfers', element: <TransfersInFlightRoute /> },
+            { path: 'reports/jobs', element: <ReportJobsRoute /> },
+          ].map((r) => ({
+            ...r,
+            element: (
+              <RequireAbility action="read" subject="Report">
+                {r.element}
+              </RequireAbility>
+            ),
+          })),
           {
             path: 'shops/new',
             element: (
