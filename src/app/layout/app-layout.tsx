@@ -41,7 +41,7 @@ export function AppLayout() {
       <header className="border-b border-paper-200 bg-white">
         {/*
           One set of controls for every width: on phones the order utilities put the shop switcher on its
-          own row under the name and fold the navigation and account into the menu; from lg up it is one row.
+          own row under the name and fold the navigation and account into the menu; from lg up it is two rows, the navigation on its own.
         */}
         <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3 sm:px-6">
           <div className="order-1">
@@ -66,7 +66,7 @@ export function AppLayout() {
           </button>
 
           <ShopSwitcher
-            className="order-3 w-full lg:order-4 lg:w-auto"
+            className="order-3 w-full lg:order-3 lg:ml-auto lg:w-auto"
             shops={me.shops}
             currentShopId={currentShop?.id}
             onChange={setCurrentShop}
@@ -76,12 +76,12 @@ export function AppLayout() {
             id={`${menuId}-nav`}
             className={cn(
               'order-4 w-full flex-col gap-4 border-t border-paper-200 pt-3',
-              'lg:order-3 lg:flex lg:w-auto lg:flex-1 lg:flex-row lg:items-center lg:border-0 lg:pt-0',
+              'lg:order-6 lg:flex lg:w-full lg:flex-row lg:items-center lg:border-t lg:pt-2',
               menuOpen ? 'flex' : 'hidden',
             )}
           >
             <nav aria-label="Main" className="lg:flex-1">
-              <ul className="flex flex-col gap-1 lg:flex-row">
+              <ul className="flex flex-col gap-1 lg:flex-row lg:flex-wrap">
                 {items.map((item) => (
                   <li key={item.to}>
                     <NavLink
@@ -89,7 +89,7 @@ export function AppLayout() {
                       end={item.end}
                       className={({ isActive }) =>
                         cn(
-                          'flex min-h-11 items-center rounded-lg px-3 font-semibold',
+                          'flex min-h-11 items-center whitespace-nowrap rounded-lg px-3 font-semibold',
                           isActive ? 'bg-accent-50 text-accent-800' : 'text-ink-800 hover:bg-paper-100 hover:text-ink-950',
                         )
                       }
@@ -106,7 +106,7 @@ export function AppLayout() {
             id={`${menuId}-account`}
             className={cn(
               'order-5 w-full items-center justify-between gap-4 border-t border-paper-200 pt-3',
-              'lg:flex lg:w-auto lg:justify-end lg:border-0 lg:pt-0',
+              'lg:order-4 lg:ml-auto lg:flex lg:w-auto lg:justify-end lg:border-0 lg:pt-0',
               menuOpen ? 'flex' : 'hidden',
             )}
           >
