@@ -10,6 +10,8 @@ import { authRouter, meRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
+import { transfersRouter } from './modules/transfers/routes.js';
+import { notificationsRouter } from './modules/notifications/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -44,6 +46,8 @@ export function buildApp() {
   app.use(meRouter);
   app.use(networksRouter);
   app.use(devRouter);
+  app.use(transfersRouter);
+  app.use(notificationsRouter);
 
   app.use('/api', notFoundHandler);
 
