@@ -33,7 +33,15 @@ export interface ManifestContent {
 }
 
 // The PDF's built-in Helvetica only has Latin-1 glyphs, so arrows and the like are spelled out.
-const latin1 = (s: string) => s.replace(/[→]/g, '->').replace(/[–—]/g, '-').replace(/[‘’]/g, "'").replace(/[^\x20-\xFF\n]/g, '?');
+const latin1 = (s: string) =>
+  s
+    .replace(/→/g, '->')
+    .replace(/♯/g, '#')
+    .replace(/♭/g, 'b')
+    .replace(/[–—]/g, '-')
+    .replace(/[‘’]/g, "'")
+    .replace(/[“”]/g, '"')
+    .replace(/[^\x20-\xFF\n]/g, '?');
 
 /** A one-page PDF that travels with the instrument; the QR code opens the transfer in Benchrelay. */
 export async function renderManifest(m: ManifestContent): Promise<Buffer> {

@@ -623,7 +623,8 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     if (!locked) return { status: 'skipped', transferId, to, reason: 'no such transfer' };
     const done = await HistoryEvent.findOne({ where: { networkId, idempotencyKey: key }, transaction });
     if (done) return { status: 'already-applied', transferId, to };
-    const valid = to === 'requested' ? locked.state === 'requested' : canMove(locked.state, to);
+    // the request is always worth recording, even when a quick approval overtook it in the queue
+    const valid = to === 'requested' || canMove(locked.state, to);
     if (!valid) return { status: 'skipped', transferId, to, reason: `the transfer is ${locked.state}` };
 
     const t = (await loadBundle(networkId, transferId, transaction))!;
