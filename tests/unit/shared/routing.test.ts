@@ -78,7 +78,7 @@ describe('rankShops', () => {
 
     // no run Seattle → Chicago: great-circle distance at 60 km/h plus 24 h handling
     const chi = ranked[1];
-    const km = haversineKm(SEA, CHI);
+    const km = haversineKm(SEA, { latitude: CHI.latitude!, longitude: CHI.longitude! });
     expect(km).toBeGreaterThan(2700);
     expect(km).toBeLessThan(2850);
     const arrival = NOW.getTime() + (24 + km / 60) * 3_600_000;
@@ -124,7 +124,7 @@ describe('rankShops', () => {
     const settings = routingSettings({ routing: { roadSpeedKmh: 90, handlingHours: 6, bogus: 'x' } });
     expect(settings).toMatchObject({ roadSpeedKmh: 90, handlingHours: 6, packingLeadHours: 2 });
     const { ranked } = rankShops({ ...base, candidates: [CHI], settings });
-    const km = haversineKm(SEA, CHI);
+    const km = haversineKm(SEA, { latitude: CHI.latitude!, longitude: CHI.longitude! });
     expect(Date.parse(ranked[0].arrivalAt!)).toBeCloseTo(NOW.getTime() + (6 + km / 90) * 3_600_000, -3);
     expect(routingSettings({ routing: { roadSpeedKmh: 0 } }).roadSpeedKmh).toBe(60);
   });
