@@ -14,6 +14,7 @@ export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
+  { to: '/transfers', label: 'Transfers', requires: { action: 'read', subject: 'Transfer' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {

@@ -9,6 +9,9 @@ import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
 import { SignInRoute } from './routes/sign-in';
 import { ShopsRoute } from './routes/shops';
+import { TransfersRoute } from './routes/transfers';
+import { TransferNewRoute } from './routes/transfer-new';
+import { TransferDetailRoute } from './routes/transfer-detail';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -36,6 +39,30 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers',
+            element: (
+              <RequireAbility action="read" subject="Transfer">
+                <TransfersRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers/new',
+            element: (
+              <RequireAbility action="request" subject="Transfer">
+                <TransferNewRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers/:id',
+            element: (
+              <RequireAbility action="read" subject="Transfer">
+                <TransferDetailRoute />
               </RequireAbility>
             ),
           },

@@ -175,8 +175,9 @@ describe('transfer lifecycle through the worker (PostgreSQL queue)', () => {
     const first = inbox.body.notifications.find((n: { link: string }) => n.link === `/transfers/${id}`);
     await request(app).post(`/api/notifications/${first.id}/read`).set('Cookie', cookies.destinationTech).expect(200);
     expect((await Notification.findByPk(first.id))?.readAt).toBeTruthy();
-    // someone else's notice is not theirs to mark
-    await request(app).post(`/api/notifications/${first.id}/read`).set('Cookie', cookies.originTech).expect(403);
+    // someone else's notice is not theirs to mark, not even the owner's to mark
+    await request(app).post(`/api/notifications/${first.id}/read`).set('Cookie', cookies.originTech).expect(404);
+    await request(app).post(`/api/notifications/${first.id}/read`).set('Cookie', cookies.owner).expect(404);
 
     // e-mail: one message per step to each person at either shop, from the outbox
     const techMail = await waitForMailCount(people.destinationTech.email, job.number, 5);

@@ -179,7 +179,8 @@ export async function listInbox(actor: Actor, options: { limit?: number } = {}) 
 }
 
 export async function markRead(actor: Actor, id: string) {
-  const row = await Notification.findOne({ where: { networkId: actor.networkId, id } });
+  // a notice is personal: not even the owner marks someone else's as read
+  const row = await Notification.findOne({ where: { networkId: actor.networkId, id, userId: actor.id } });
   if (!row) throw notFound('That notice');
   assertCan(actor.ability, 'update', 'Notification', row.get({ plain: true }));
   if (!row.readAt) await row.update({ readAt: new Date() });

@@ -318,17 +318,40 @@ export async function recommendDestinations(actor: Actor, input: { jobId: string
   const skills = await Skill.findAll({ where: { networkId: actor.networkId }, order: [['name', 'ASC']] });
   const skillId = input.skillId ?? job.requiredSkillId;
   const skill = skills.find((s) => s.id === skillId);
-  if (!skill) throw badRequest('Choose the skill this job needs.', { skillId: 'Choose the skill this job needs.' });
+  if (input.skillId && !skill) throw badRequest('Choose one of the network’s skills.', { skillId: 'Choose one of the network’s skills.' });
 
-  const [network, origin, shopSkills, runs, backlog, openTransfer] = await Promise.all([
+  const [network, origin, openTransfer] = await Promise.all([
     Network.findByPk(actor.networkId),
     Shop.findOne({ where: { networkId: actor.networkId, id: job.shopId } }),
-    ShopSkill.findAll({ where: { networkId: actor.networkId, skillId: skill.id }, include: [{ association: 'shop' }] }),
-    RelayRun.findAll({ where: { networkId: actor.networkId, fromShopId: job.shopId, active: true } }),
-    backlogBySkill(actor.networkId, skill.id, job.id),
     Transfer.findOne({ where: { networkId: actor.networkId, jobId: job.id, state: { [Op.in]: OPEN_TRANSFER_STATES } } }),
   ]);
   if (!origin) throw notFound('That job’s shop');
+  const jobBrief = {
+    id: job.id,
+    number: job.number,
+    stage: job.stage,
+    complaint: job.complaint,
+    estimatedHours: job.estimatedHours,
+    shop: shopBrief(origin),
+    instrument: {
+      family: job.instrument.family,
+      maker: job.instrument.maker,
+      model: job.instrument.model,
+      serial: job.instrument.serial,
+    },
+    transferable: TRANSFERABLE_STAGES.includes(job.stage) && !openTransfer,
+    openTransferId: openTransfer?.id ?? null,
+  };
+  const skillList = skills.map((s) => ({ id: s.id, code: s.code, name: s.name }));
+  const settings = routingSettings(network?.settings);
+  // no skill on the job yet: the screen asks for one before it can rank anything
+  if (!skill) return { job: jobBrief, skill: null, skills: skillList, ranked: [], recommendedShopId: null, settings };
+
+  const [shopSkills, runs, backlog] = await Promise.all([
+    ShopSkill.findAll({ where: { networkId: actor.networkId, skillId: skill.id }, include: [{ association: 'shop' }] }),
+    RelayRun.findAll({ where: { networkId: actor.networkId, fromShopId: job.shopId, active: true } }),
+    backlogBySkill(actor.networkId, skill.id, job.id),
+  ]);
 
   const candidates = (shopSkills as Array<ShopSkill & { shop: Shop }>)
     .filter((ss) => ss.shop?.active)
@@ -349,29 +372,9 @@ export async function recommendDestinations(actor: Actor, input: { jobId: string
     skillName: skill.name,
     candidates,
     runs: runs.map((r) => ({ ...r.get({ plain: true }), transitHours: r.transitHours })),
-    settings: routingSettings(network?.settings),
+    settings,
   });
-  return {
-    job: {
-      id: job.id,
-      number: job.number,
-      stage: job.stage,
-      complaint: job.complaint,
-      estimatedHours: job.estimatedHours,
-      shop: shopBrief(origin),
-      instrument: {
-        family: job.instrument.family,
-        maker: job.instrument.maker,
-        model: job.instrument.model,
-        serial: job.instrument.serial,
-      },
-      transferable: TRANSFERABLE_STAGES.includes(job.stage) && !openTransfer,
-      openTransferId: openTransfer?.id ?? null,
-    },
-    skill: { id: skill.id, code: skill.code, name: skill.name },
-    skills: skills.map((s) => ({ id: s.id, code: s.code, name: s.name })),
-    ...result,
-  };
+  return { job: jobBrief, skill: { id: skill.id, code: skill.code, name: skill.name }, skills: skillList, ...result };
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -194,10 +194,10 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows People and Shops in the navigation for an owner', async () => {
+  it('shows People, Shops and Transfers in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'People', 'Shops']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'People', 'Shops', 'Transfers']);
   });
 
   it('shows a technician only Home, and hides the owner screens even by address', async () => {
