@@ -29,6 +29,8 @@ export function transferListQueryOptions(view: TransferView, shopId: string | un
       api.get<{ transfers: TransferSummary[] }>(`/api/transfers?${query({ view, shopId, status })}`, signal),
     select: (data) => data.transfers,
     enabled: view === 'approvals' || view === 'all' || !!shopId,
+    // the board is watched while instruments move: look again now and then
+    refetchInterval: 20_000,
   });
 }
 
@@ -65,15 +67,20 @@ export function useRequestTransfer() {
   });
 }
 
+/** The worker usually finishes a step within a second; lists look again then to show it done. */
+const WORKER_SETTLE_MS = 1200;
+
 export function useTransferAction(id: string) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: ({ action, body }: { action: TransferAction; body?: Record<string, unknown> }) =>
       api.post<StepAccepted>(`/api/transfers/${id}/${action}`, body ?? {}),
-    onSuccess: () =>
-      Promise.all([
+    onSuccess: () => {
+      setTimeout(() => void client.invalidateQueries({ queryKey: transferKeys.lists() }), WORKER_SETTLE_MS);
+      return Promise.all([
         client.invalidateQueries({ queryKey: transferKeys.detail(id) }),
         client.invalidateQueries({ queryKey: transferKeys.lists() }),
-      ]),
+      ]);
+    },
   });
 }

@@ -6,7 +6,7 @@ import { STATE_TONE } from '../format';
 export function TransferStateBadge({ state, overdue, className }: { state: TransferState; overdue?: boolean; className?: string }) {
   return (
     <span className={cn('inline-flex flex-wrap items-center gap-1.5', className)}>
-      <span className={cn('inline-flex items-center rounded-full px-2.5 py-0.5 text-xs font-semibold', STATE_TONE[state])}>
+      <span data-state={state} className={cn('inline-flex items-center rounded-full px-2.5 py-0.5 text-xs font-semibold', STATE_TONE[state])}>
         {TRANSFER_STATE_LABELS[state]}
       </span>
       {overdue ? (
