@@ -38,7 +38,7 @@ export function canMove(from: TransferState, to: TransferState): boolean {
 export const HEAVY_CASE_FAMILIES: InstrumentFamily[] = ['baritone_saxophone', 'tuba', 'euphonium'];
 
 export const LIFTING_CAUTION =
-  'Heavy case. A baritone saxophone or a tuba in its case is heavy and awkward to carry: lift it with two people ' +
+  'A baritone saxophone or a tuba in its case is heavy and awkward to carry: lift it with two people ' +
   'or move it on a cart, keep it close to your body and do not twist while carrying. Follow your workplace ' +
   'rules for manual handling and your local codes; they take precedence over this note.';
 

@@ -38,13 +38,13 @@ export function localDate(instant: Date, timeZone: string): string {
   return `${p.year}-${String(p.month).padStart(2, '0')}-${String(p.day).padStart(2, '0')}`;
 }
 
-/** "Tue 11 Jun, 07:30" in the shop's zone, for reasons people read. */
+/** "Tue, Jun 11, 07:30" in the shop's zone, for reasons people read (the screens write dates the same way). */
 export function formatLocal(instant: Date, timeZone: string, withTime = true): string {
-  return new Intl.DateTimeFormat('en-GB', {
+  return new Intl.DateTimeFormat('en-US', {
     timeZone,
     weekday: 'short',
-    day: 'numeric',
     month: 'short',
+    day: 'numeric',
     ...(withTime ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' } : {}),
   }).format(instant);
 }

@@ -169,8 +169,9 @@ export async function getTransfer(actor: Actor, id: string) {
   const t = await loadReadable(actor, id);
   const [runs, history, pending] = await Promise.all([
     RelayRun.findAll({ where: { networkId: actor.networkId, fromShopId: t.fromShopId, toShopId: t.toShopId, active: true } }),
+    // every transfer event names its transfer in `data`, including those written before the worker kept keys
     HistoryEvent.findAll({
-      where: { networkId: actor.networkId, idempotencyKey: { [Op.like]: `transfer:${t.id}:%` } },
+      where: { networkId: actor.networkId, instrumentId: t.instrumentId, data: { transferId: t.id } },
       include: [{ association: 'user', required: false, attributes: ['id', 'name'] }],
       order: [['occurredAt', 'ASC'], ['createdAt', 'ASC']],
     }),
@@ -247,8 +248,10 @@ const formatWeekdaysShort = (days: number[]) => [...days].sort().map((d) => DAY_
 
 export async function manifestFile(actor: Actor, id: string) {
   const t = await loadReadable(actor, id);
-  if (!t.manifestKey) throw new AppError(404, 'not_ready', 'The manifest is still being prepared. Try again in a moment.');
-  const body = await getObjectBuffer(t.manifestKey);
+  // the worker writes it with each step; a transfer from before (or a step still queued) gets one now
+  const key = t.manifestKey ?? (await writeManifest(actor.networkId, t.id));
+  if (!key) throw notFound('That transfer');
+  const body = await getObjectBuffer(key);
   return { body, filename: `transfer-job-${t.job.number}-manifest.pdf` };
 }
 

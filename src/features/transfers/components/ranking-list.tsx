@@ -22,9 +22,17 @@ const TRANSPORT: Record<RankedShop['transport'], string> = {
  * group: arrow keys move between shops, and the origin cannot be chosen as a destination.
  */
 export function RankingList({ ranked, recommendedShopId, selectedShopId, onSelect, name }: RankingListProps) {
+  const first = ranked[0];
+  const keepingIsBest = !!first?.isOrigin && !!first.finishDate;
   return (
     <fieldset>
       <legend className="mb-3 text-lg font-semibold text-ink-950">Where it would be finished soonest</legend>
+      {keepingIsBest ? (
+        <p role="status" className="mb-3 rounded-xl border border-paper-300 bg-paper-50 p-3 text-sm text-ink-800">
+          Keeping the job at {first.shopName} finishes it soonest, by {formatLocalDate(first.finishDate)}. Send it only for another
+          reason, such as a specialist’s hands.
+        </p>
+      ) : null}
       <ol className="flex flex-col gap-3">
         {ranked.map((r) => {
           const selectable = !r.isOrigin && !!r.finishDate;
@@ -54,7 +62,9 @@ export function RankingList({ ranked, recommendedShopId, selectedShopId, onSelec
                     <span className="text-sm font-semibold text-ink-600">#{r.rank}</span>
                     <span className="text-base font-semibold text-ink-950">{r.shopName}</span>
                     {r.shopId === recommendedShopId ? (
-                      <span className="rounded-full bg-accent-600 px-2.5 py-0.5 text-xs font-semibold text-white">Recommended</span>
+                      <span className="rounded-full bg-accent-600 px-2.5 py-0.5 text-xs font-semibold text-white">
+                        {keepingIsBest ? 'Best other shop' : 'Recommended'}
+                      </span>
                     ) : null}
                     {r.isOrigin ? <span className="rounded-full bg-paper-200 px-2.5 py-0.5 text-xs font-semibold text-ink-800">This shop</span> : null}
                   </span>

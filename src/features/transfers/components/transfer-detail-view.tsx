@@ -71,16 +71,12 @@ export function TransferDetailView({ id, currentUserId, hrefFor }: TransferDetai
           {showCaution ? <LiftingCaution /> : null}
           <Card as="section" aria-label="Manifest">
             <CardTitle>Manifest</CardTitle>
-            {t.manifestAvailable ? (
-              <>
-                <p className="mt-1 text-sm text-ink-600">One page with a QR code that opens this transfer. Print it and pack it with the instrument.</p>
-                <a className={buttonClasses('secondary', 'md', 'mt-3')} href={`/api/transfers/${t.id}/manifest`} download>
-                  Download manifest (PDF)
-                </a>
-              </>
-            ) : (
-              <p className="mt-1 text-sm text-ink-600">Being prepared; it appears here in a moment.</p>
-            )}
+            <p className="mt-1 text-sm text-ink-600">
+              One page with the serial, the route and a QR code that opens this transfer. Print it and pack it with the instrument.
+            </p>
+            <a className={buttonClasses('secondary', 'md', 'mt-3')} href={`/api/transfers/${t.id}/manifest`} download>
+              Download manifest (PDF)
+            </a>
           </Card>
         </div>
       </div>
@@ -137,7 +133,7 @@ function Timeline({ t }: { t: TransferDetail }) {
           ))}
         </ol>
       ) : (
-        <p className="mt-1 text-sm text-ink-600">Nothing recorded yet; the request is being written down.</p>
+        <p className="mt-1 text-sm text-ink-600">Nothing recorded for this transfer yet.</p>
       )}
     </Card>
   );
