@@ -10,6 +10,9 @@ import { authRouter, meRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
 import { devRouter } from './modules/dev/routes.js';
+import { registryRouter } from './modules/registry/routes.js';
+import { jobsRouter } from './modules/jobs/routes.js';
+import { filesRouter } from './modules/files/routes.js';
 import { transfersRouter } from './modules/transfers/routes.js';
 import { notificationsRouter } from './modules/notifications/routes.js';
 
@@ -46,6 +49,9 @@ export function buildApp() {
   app.use(meRouter);
   app.use(networksRouter);
   app.use(devRouter);
+  app.use(registryRouter);
+  app.use(jobsRouter);
+  app.use(filesRouter);
   app.use(transfersRouter);
   app.use(notificationsRouter);
 

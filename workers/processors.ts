@@ -3,8 +3,9 @@ import { sendMail } from '../server/lib/mail.js';
 import { appQueue, createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
 import { applyTransferStep, checkTransferArrival } from '../server/modules/transfers/service.js';
-import { deliverOutbox } from '../server/modules/notifications/service.js';
+import { deliverOutbox, deliverOutboxMessage } from '../server/modules/notifications/service.js';
 import type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../server/modules/transfers/queue.js';
+import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
 
 /**
  * Tests only: `BENCHRELAY_CRASH_AFTER_COMMIT=<job name>` ends the process right after that job's
@@ -31,6 +32,15 @@ export const processors = {
     applyTransferStep(job.data, { afterCommit: () => crashAfterCommitIfAsked('transfer-step', job.data.transferId) }),
   'transfer-arrival-check': async (job: Job<ArrivalCheckData>) => checkTransferArrival(job.data),
   'send-outbox': async (job: Job<SendOutboxData>) => deliverOutbox({ dedupePrefix: job.data?.dedupePrefix }),
+  // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed
+  'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
+    makeThumbnail(job.data.networkId, job.data.attachmentId),
+  // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed
+  'expire-upload': async (job: Job<{ networkId: string; attachmentId: string }>) =>
+    expireUpload(job.data.networkId, job.data.attachmentId),
+  // job id `outbox-<outboxId>`: one delivery per outbox row
+  'deliver-outbox': async (job: Job<{ networkId: string; outboxId: string }>) =>
+    deliverOutboxMessage(job.data.networkId, job.data.outboxId),
 } satisfies Record<string, (job: Job<never>) => Promise<unknown>>;
 
 export type JobName = keyof typeof processors;

@@ -76,6 +76,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: desk } });
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: desk } });
     can(['create'], 'Attachment', { shopId: { $in: desk } });
+    // a wrong photo taken at intake can be taken back by whoever took it
+    can('delete', 'Attachment', { shopId: { $in: desk }, uploadedByUserId: user.id });
     can('request', 'Transfer', { fromShopId: { $in: desk } });
     can('read', 'Transfer', { fromShopId: { $in: desk } });
     can('read', 'Transfer', { toShopId: { $in: desk } });
@@ -92,6 +94,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can('read', 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
+    // Bench staff may call the customers their shop serves (the registry checks each serving shop as homeShopId).
+    can('read', 'CustomerContact', { homeShopId: { $in: bench } });
   }
 
   if (audited.length) {

@@ -12,9 +12,14 @@ export interface NavItem {
 // Only screens that exist are listed. Each new area adds its entry here and its route in router.tsx.
 export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
+  { to: '/registry', label: 'Registry', requires: { action: 'read', subject: 'Instrument' } },
+  { to: '/intake', label: 'Intake', requires: { action: 'create', subject: 'Job' } },
+  { to: '/jobs', label: 'Job board', requires: { action: 'read', subject: 'Job' } },
+  { to: '/bench', label: 'My bench', requires: { action: 'update', subject: 'Job' } },
+  { to: '/transfers', label: 'Transfers', requires: { action: 'read', subject: 'Transfer' } },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
-  { to: '/transfers', label: 'Transfers', requires: { action: 'read', subject: 'Transfer' } },
+  { to: '/catalog', label: 'Service catalog', requires: { action: 'create', subject: 'ServiceCatalog' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {

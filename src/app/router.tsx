@@ -12,6 +12,16 @@ import { ShopsRoute } from './routes/shops';
 import { TransfersRoute } from './routes/transfers';
 import { TransferNewRoute } from './routes/transfer-new';
 import { TransferDetailRoute } from './routes/transfer-detail';
+import { RegistryRoute } from './routes/registry';
+import { InstrumentRoute } from './routes/instrument';
+import { InstrumentLabelRoute } from './routes/instrument-label';
+import { IntakeRoute } from './routes/intake';
+import { RegistryImportRoute } from './routes/registry-import';
+import { JobBoardRoute } from './routes/job-board';
+import { MyBenchRoute } from './routes/my-bench';
+import { JobRoute } from './routes/job';
+import { ServiceCatalogRoute } from './routes/service-catalog';
+import { InstrumentPhotosRoute } from './routes/instrument-photos';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -39,6 +49,86 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobBoardRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId',
+            element: (
+              <RequireAbility action="read" subject="Job">
+                <JobRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'bench',
+            element: (
+              <RequireAbility action="update" subject="Job">
+                <MyBenchRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'catalog',
+            element: (
+              <RequireAbility action="create" subject="ServiceCatalog">
+                <ServiceCatalogRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'instruments/:instrumentId/photos',
+            element: (
+              <RequireAbility action="read" subject="Attachment">
+                <InstrumentPhotosRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <RegistryRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/import',
+            element: (
+              <RequireAbility action="create" subject="Instrument">
+                <RegistryImportRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/instruments/:id',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <InstrumentRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'registry/instruments/:id/label',
+            element: (
+              <RequireAbility action="read" subject="Instrument">
+                <InstrumentLabelRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'intake',
+            element: (
+              <RequireAbility action="create" subject="Job">
+                <IntakeRoute />
               </RequireAbility>
             ),
           },

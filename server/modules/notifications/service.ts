@@ -1,8 +1,9 @@
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
-import { transport } from '../../lib/mail.js';
+import { transport, type OutgoingMail } from '../../lib/mail.js';
 import { logger } from '../../lib/logger.js';
+import { appQueue } from '../../lib/queue.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { notFound } from '../../lib/errors.js';
 import type { Actor } from '../../lib/auth.js';
@@ -11,9 +12,10 @@ import type { NotificationKind, Role } from '../../../shared/domain.js';
 
 /**
  * Notices: an in-app inbox entry per person and, unless they turned e-mail off for that kind, an e-mail
- * written to the outbox in the caller's transaction. The outbox is sent afterwards (`deliverOutbox`),
- * so a crash between the commit and the send loses nothing, and the row's `sent_at` means a message is
- * sent once.
+ * written to the outbox in the caller's transaction. The outbox is sent afterwards (`deliverOutbox` for a
+ * step's rows, `deliverOutboxMessage` for one row), so a crash between the commit and the send loses
+ * nothing; every send claims its row with FOR UPDATE SKIP LOCKED and marks it sent in the same
+ * transaction, so two workers never send one message twice.
  */
 
 export interface NoticeInput {
@@ -103,18 +105,49 @@ export async function peopleAt(networkId: string, shopIds: string[] | null, role
 
 const MAX_ATTEMPTS = 10;
 
+interface ClaimedRow {
+  id: string;
+  networkId: string;
+  payload: Partial<OutgoingMail> & Record<string, unknown>;
+  attempts: number;
+}
+
+type SendOutcome = { kind: 'sent'; messageId: string } | { kind: 'failed'; error: Error };
+
 /**
- * Sends pending outbox e-mails one at a time: each row is claimed with FOR UPDATE SKIP LOCKED, sent, and
- * marked sent in the same transaction, so two workers never send the same row. A failed send is counted
- * on the row and the call throws, so the queued job retries with backoff. The Message-ID comes from the
+ * Sends a claimed row and records the outcome in the caller's transaction. The Message-ID comes from the
  * row id: should a send ever repeat after a crash mid-commit, receiving servers can tell it is the same.
+ */
+async function sendClaimed(row: ClaimedRow, transaction: Transaction): Promise<SendOutcome> {
+  const where = { networkId: row.networkId, id: row.id };
+  const p = row.payload;
+  try {
+    const info = await transport.sendMail({
+      from: config.smtp.from,
+      to: p.to as string | string[],
+      subject: p.subject as string,
+      text: p.text as string,
+      ...(p.html ? { html: p.html as string } : {}),
+      messageId: `<${row.id}@outbox.benchrelay>`,
+    });
+    await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date(), lastError: null }, { where, transaction });
+    return { kind: 'sent', messageId: info.messageId };
+  } catch (err) {
+    await OutboxMessage.update({ attempts: row.attempts + 1, lastError: (err as Error).message.slice(0, 500) }, { where, transaction });
+    return { kind: 'failed', error: err as Error };
+  }
+}
+
+/**
+ * Sends pending outbox e-mails one at a time (those whose dedupe key starts with `dedupePrefix`, or all).
+ * A failed send is counted on the row and the call throws, so the queued job retries with backoff.
  */
 export async function deliverOutbox(options: { dedupePrefix?: string; limit?: number } = {}) {
   const limit = options.limit ?? 500;
   let sent = 0;
   for (let i = 0; i < limit; i++) {
     const outcome = await sequelize.transaction(async (transaction) => {
-      const rows = await sequelize.query<{ id: string; network_id: string; payload: OutboxPayload; attempts: number }>(
+      const rows = await sequelize.query<{ id: string; network_id: string; payload: ClaimedRow['payload']; attempts: number }>(
         `select id, network_id, payload, attempts
            from outbox
           where sent_at is null and attempts < :maxAttempts
@@ -125,27 +158,10 @@ export async function deliverOutbox(options: { dedupePrefix?: string; limit?: nu
         { type: QueryTypes.SELECT, transaction, replacements: { prefix: options.dedupePrefix ?? null, maxAttempts: MAX_ATTEMPTS } },
       );
       const row = rows[0];
-      if (!row) return { kind: 'empty' as const };
-      const where = { networkId: row.network_id, id: row.id };
-      try {
-        await transport.sendMail({
-          from: config.smtp.from,
-          to: row.payload.to,
-          subject: row.payload.subject,
-          text: row.payload.text,
-          messageId: `<${row.id}@outbox.benchrelay>`,
-        });
-      } catch (err) {
-        await OutboxMessage.update(
-          { attempts: row.attempts + 1, lastError: (err as Error).message.slice(0, 500) },
-          { where, transaction },
-        );
-        return { kind: 'failed' as const, error: err as Error };
-      }
-      await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date() }, { where, transaction });
-      return { kind: 'sent' as const };
+      if (!row) return null;
+      return sendClaimed({ id: row.id, networkId: row.network_id, payload: row.payload, attempts: row.attempts }, transaction);
     });
-    if (outcome.kind === 'empty') break;
+    if (!outcome) break;
     if (outcome.kind === 'failed') {
       logger.warn({ err: outcome.error.message }, 'outbox e-mail not sent; will retry');
       throw new Error(`An e-mail could not be sent: ${outcome.error.message}`);
@@ -153,6 +169,56 @@ export async function deliverOutbox(options: { dedupePrefix?: string; limit?: nu
     sent++;
   }
   return { sent };
+}
+
+/**
+ * One e-mail through the outbox, for a change that tells one person (a stage move): the row is written in
+ * the caller's transaction and, after the commit, a 'deliver-outbox' job sends it. `dedupeKey` makes a
+ * repeated step write the message once, and the job id makes a repeated enqueue run once.
+ */
+export interface QueuedEmail extends OutgoingMail {
+  networkId: string;
+  dedupeKey: string;
+}
+
+export const deliverOutboxJobId = (outboxId: string) => `outbox-${outboxId}`;
+
+export async function queueEmail(mail: QueuedEmail, transaction: Transaction): Promise<string | null> {
+  const { networkId, dedupeKey, ...message } = mail;
+  const [row, created] = await OutboxMessage.findOrCreate({
+    where: { networkId, dedupeKey },
+    defaults: { networkId, dedupeKey, kind: 'email', payload: { ...message } },
+    transaction,
+  });
+  if (!created) return row.id;
+  transaction.afterCommit(() => {
+    appQueue()
+      .add('deliver-outbox', { networkId, outboxId: row.id }, {
+        jobId: deliverOutboxJobId(row.id),
+        attempts: 6,
+        backoff: { type: 'exponential', delay: 2000 },
+        removeOnComplete: 1000,
+      })
+      .catch((err: Error) => logger.warn({ err: err.message, outboxId: row.id }, 'could not enqueue an e-mail; it stays in the outbox'));
+  });
+  return row.id;
+}
+
+/** Sends one outbox message unless it went already (or another worker is sending it); failures are recorded and rethrown. */
+export async function deliverOutboxMessage(networkId: string, outboxId: string): Promise<{ sent: boolean; messageId?: string }> {
+  const outcome = await sequelize.transaction(async (transaction) => {
+    const row = await OutboxMessage.findOne({
+      where: { networkId, id: outboxId },
+      lock: transaction.LOCK.UPDATE,
+      skipLocked: true,
+      transaction,
+    });
+    if (!row || row.sentAt) return null;
+    return sendClaimed({ id: row.id, networkId, payload: row.payload as ClaimedRow['payload'], attempts: row.attempts }, transaction);
+  });
+  if (!outcome) return { sent: false };
+  if (outcome.kind === 'failed') throw outcome.error;
+  return { sent: true, messageId: outcome.messageId };
 }
 
 /** The signed-in person's inbox, newest first, with the count still unread. */

@@ -194,16 +194,18 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows People, Shops and Transfers in the navigation for an owner', async () => {
+  it('shows the registry, intake, job screens, transfers, People, Shops and the service catalog in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'People', 'Shops', 'Transfers']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual([
+      'Home', 'Registry', 'Intake', 'Job board', 'My bench', 'Transfers', 'People', 'Shops', 'Service catalog',
+    ]);
   });
 
-  it('shows a technician only Home, and hides the owner screens even by address', async () => {
+  it('shows a technician Home, the registry and the job screens, and hides intake and the owner screens even by address', async () => {
     renderApp('/people', technicianAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
-    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home']);
+    expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual(['Home', 'Registry', 'Job board', 'My bench']);
     expect(within(nav).queryByRole('link', { name: 'People' })).not.toBeInTheDocument();
     expect(screen.getByRole('heading', { name: 'Page not found' })).toBeInTheDocument();
   });

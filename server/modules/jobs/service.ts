@@ -1,0 +1,926 @@
+import { subject } from '@casl/ability';
+import { Op, QueryTypes, fn, col, type Transaction, type WhereOptions, type Order } from 'sequelize';
+import type { z } from 'zod';
+import {
+  Customer,
+  HistoryEvent,
+  Instrument,
+  Job,
+  JobLineItem,
+  Part,
+  ServiceCatalogItem,
+  Shop,
+  Skill,
+  TimeLog,
+  User,
+  sequelize,
+} from '../../lib/models.js';
+import type { Actor } from '../../lib/auth.js';
+import { accessibleWhere, assertCan } from '../../lib/access.js';
+import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
+import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
+import { estimateTotals, formatBasisPoints, formatCents, laborHours, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
+import { addOpeningDays, formatCalendarDate, isOverdue, localDate } from '../../../shared/jobs/promised-date.js';
+import { allowedMoves, checkMove, mayRecordApproval, rolesAtShop, type MainStage } from '../../../shared/jobs/stage-machine.js';
+import { cautionsFor } from '../../../shared/jobs/cautions.js';
+import {
+  ESTIMATE_APPROVAL_METHOD_LABELS,
+  type approvalSchema,
+  type BoardQuery,
+  type catalogItemSchema,
+  type catalogItemUpdateSchema,
+  type catalogQuerySchema,
+  type JobUpdate,
+  type LineItemCreate,
+  type lineItemUpdateSchema,
+  type stageMoveSchema,
+  type timeLogSchema,
+} from '../../../shared/jobs/schemas.js';
+import type {
+  BoardResponse,
+  CatalogItemDto,
+  HistoryDto,
+  JobDetail,
+  JobSummary,
+  LineItemDto,
+  PersonRef,
+  TimeLogDto,
+} from '../../../shared/jobs/dto.js';
+import { queueEmail } from '../notifications/service.js';
+
+/**
+ * Jobs at the bench: the board, the job page, stage moves, the estimate, approvals, time and the
+ * service catalog. Every function starts from the session's network; ids from the URL are looked up
+ * inside it, so another network's job is simply not found.
+ */
+
+const OPEN_EXCEPT_DONE: JobStage[] = ['ready', 'released'];
+/** The estimate is frozen once the work is finished. */
+const ESTIMATE_FROZEN: JobStage[] = ['ready', 'released'];
+
+const iso = (d: Date | string | null | undefined) => (d == null ? null : new Date(d).toISOString());
+const person = (u: { id: string; name: string } | null | undefined): PersonRef | null => (u ? { id: u.id, name: u.name } : null);
+const asRow = (job: Job) => job.get({ plain: true }) as unknown as Record<string, unknown>;
+
+async function findJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
+  const job = await Job.findOne({
+    where: { networkId: actor.networkId, id: jobId },
+    transaction: options.transaction,
+    lock: options.lock ? options.transaction?.LOCK.UPDATE : undefined,
+  });
+  if (!job) throw notFound('That job');
+  return job;
+}
+
+async function findShop(networkId: string, shopId: string, transaction?: Transaction) {
+  const shop = await Shop.findOne({ where: { networkId, id: shopId }, transaction });
+  if (!shop) throw notFound('That shop');
+  return shop;
+}
+
+async function readableJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
+  const job = await findJob(actor, jobId, options);
+  // a job the person may not read answers like a missing one, so its existence does not leak
+  if (!actor.ability.can('read', subject('Job', asRow(job)) as never)) throw notFound('That job');
+  return job;
+}
+
+export const rolesFor = (actor: Actor, shopId: string): Role[] => rolesAtShop(actor.memberships, shopId);
+
+export async function recordHistory(
+  job: Pick<Job, 'networkId' | 'id' | 'instrumentId' | 'shopId'>,
+  userId: string | null,
+  kind: string,
+  summary: string,
+  data: Record<string, unknown>,
+  transaction?: Transaction,
+) {
+  return HistoryEvent.create(
+    { networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: job.shopId, userId, kind, summary, data },
+    { transaction },
+  );
+}
+
+/** People who may be assigned work at a shop: its technicians. */
+async function techniciansAt(networkId: string, shopId: string, transaction?: Transaction): Promise<PersonRef[]> {
+  return sequelize.query<PersonRef>(
+    `select u.id, u.name
+       from users u
+       join memberships m on m.network_id = u.network_id and m.user_id = u.id
+      where u.network_id = :networkId and m.shop_id = :shopId and m.role = 'technician' and u.active
+      order by u.name`,
+    { type: QueryTypes.SELECT, replacements: { networkId, shopId }, transaction },
+  );
+}
+
+async function networkSkills(networkId: string): Promise<PersonRef[]> {
+  const skills = await Skill.findAll({ where: { networkId }, order: [['name', 'ASC']], attributes: ['id', 'name'] });
+  return skills.map((s) => ({ id: s.id, name: s.name }));
+}
+
+const summaryIncludes = () => [
+  { model: Instrument, as: 'instrument', attributes: ['id', 'family', 'maker', 'model', 'serial'] },
+  { model: User, as: 'assignee', attributes: ['id', 'name'] },
+  { model: Skill, as: 'requiredSkill', attributes: ['id', 'name'] },
+  { model: Customer, as: 'customer', attributes: ['id', 'name'] },
+  { model: Shop, as: 'shop', attributes: ['id', 'name', 'timeZone'] },
+];
+
+function toSummary(job: Job, now = new Date()): JobSummary {
+  const shop = job.shop!;
+  const inst = job.instrument!;
+  return {
+    id: job.id,
+    number: job.number,
+    stage: job.stage,
+    stageBeforeHold: job.stageBeforeHold ?? null,
+    shop: { id: shop.id, name: shop.name, timeZone: shop.timeZone },
+    instrument: { id: inst.id, family: inst.family, maker: inst.maker, model: inst.model ?? null, serial: inst.serial },
+    customerName: job.customer?.name ?? null,
+    complaint: job.complaint,
+    assignee: person(job.assignee),
+    requiredSkill: person(job.requiredSkill),
+    promisedOn: job.promisedOn ?? null,
+    overdue: isOverdue(job.promisedOn, job.stage, now, shop.timeZone),
+    estimateApproved: Boolean(job.estimateApprovedAt),
+    openedAt: iso(job.openedAt)!,
+    updatedAt: iso(job.updatedAt)!,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Board and my bench
+
+function boardOrder(sort: BoardQuery['sort'], dir: 'asc' | 'desc' | undefined): Order {
+  const d = (fallback: 'ASC' | 'DESC') => (dir ? (dir.toUpperCase() as 'ASC' | 'DESC') : fallback);
+  switch (sort) {
+    case 'promised':
+      return [['promisedOn', `${d('ASC')} NULLS LAST`], ['number', 'ASC']];
+    case 'opened':
+      return [['openedAt', d('DESC')], ['number', 'DESC']];
+    case 'number':
+      return [['number', d('ASC')]];
+    case 'updated':
+      return [['updatedAt', d('DESC')], ['number', 'DESC']];
+  }
+}
+
+export async function jobBoard(actor: Actor, q: BoardQuery): Promise<BoardResponse> {
+  const shop = await findShop(actor.networkId, q.shop);
+  if (!actor.ability.can('read', subject('Job', { shopId: shop.id }) as never)) {
+    throw forbidden('You do not see this shop’s job board.');
+  }
+  const readWhere = accessibleWhere(actor.ability, 'read', 'Job') ?? { id: null };
+  const now = new Date();
+  const today = localDate(now, shop.timeZone);
+
+  const filters: WhereOptions[] = [{ networkId: actor.networkId }, { shopId: shop.id }, readWhere];
+  if (q.technician === 'unassigned') filters.push({ assignedUserId: null });
+  else if (q.technician) filters.push({ assignedUserId: q.technician });
+  if (q.skill) filters.push({ requiredSkillId: q.skill });
+  if (q.overdue) filters.push({ promisedOn: { [Op.lt]: today } }, { stage: { [Op.notIn]: OPEN_EXCEPT_DONE } });
+  const instrumentInclude = {
+    model: Instrument,
+    as: 'instrument',
+    attributes: [] as string[],
+    required: true,
+    ...(q.family ? { where: { family: q.family } } : {}),
+  };
+
+  const stageWhere: WhereOptions =
+    q.stage === 'open' ? { stage: { [Op.ne]: 'released' } } : q.stage === 'all' ? {} : { stage: q.stage };
+
+  const countRows = (await Job.findAll({
+    where: { [Op.and]: filters },
+    include: [instrumentInclude],
+    attributes: ['stage', [fn('count', col('Job.id')), 'n']],
+    group: ['Job.stage'],
+    raw: true,
+  })) as unknown as Array<{ stage: JobStage; n: string }>;
+  const counts: Partial<Record<JobStage, number>> = {};
+  for (const row of countRows) counts[row.stage] = Number(row.n); // COUNT comes back as a string
+
+  const includes = summaryIncludes().map((inc) =>
+    inc.as === 'instrument' ? { ...inc, required: true, ...(q.family ? { where: { family: q.family } } : {}) } : inc,
+  );
+  const { rows, count } = await Job.findAndCountAll({
+    where: { [Op.and]: [...filters, stageWhere] },
+    include: includes,
+    order: boardOrder(q.sort, q.dir),
+    limit: q.pageSize,
+    offset: (q.page - 1) * q.pageSize,
+  });
+
+  const [technicians, skills] = await Promise.all([techniciansAt(actor.networkId, shop.id), networkSkills(actor.networkId)]);
+  return {
+    shop: { id: shop.id, name: shop.name, timeZone: shop.timeZone },
+    jobs: rows.map((j) => toSummary(j, now)),
+    total: count,
+    page: q.page,
+    pageSize: q.pageSize,
+    counts,
+    filters: { technicians, skills },
+  };
+}
+
+/** A technician's own open work across their shops, soonest promise first (no promise last). */
+export async function myBench(actor: Actor, shopId?: string): Promise<{ jobs: JobSummary[] }> {
+  const readWhere = accessibleWhere(actor.ability, 'read', 'Job') ?? { id: null };
+  const rows = await Job.findAll({
+    where: {
+      [Op.and]: [
+        { networkId: actor.networkId, assignedUserId: actor.id, stage: { [Op.ne]: 'released' } },
+        shopId ? { shopId } : {},
+        readWhere,
+      ],
+    },
+    include: summaryIncludes(),
+    order: [['promisedOn', 'ASC NULLS LAST'], ['number', 'ASC']],
+    limit: 200,
+  });
+  const now = new Date();
+  return { jobs: rows.map((j) => toSummary(j, now)) };
+}
+
+// ---------------------------------------------------------------------------------------------
+// The job page
+
+function lineDto(item: JobLineItem): LineItemDto {
+  return {
+    id: item.id,
+    kind: item.kind,
+    catalogItemId: item.catalogItemId ?? null,
+    partId: item.partId ?? null,
+    description: item.description,
+    hours: item.hours ?? null,
+    rateCents: item.rateCents ?? null,
+    quantity: item.quantity ?? null,
+    unitPriceCents: item.unitPriceCents ?? null,
+    position: item.position,
+    totalCents: lineTotalCents(toEstimateLine(item)),
+    cautions: item.kind === 'labor' ? cautionsFor(item.description) : [],
+  };
+}
+
+function toEstimateLine(item: Pick<JobLineItem, 'kind' | 'hours' | 'rateCents' | 'quantity' | 'unitPriceCents'>): EstimateLine {
+  return item.kind === 'labor'
+    ? { kind: 'labor', hours: item.hours ?? 0, rateCents: item.rateCents ?? 0 }
+    : { kind: 'part', quantity: item.quantity ?? 0, unitPriceCents: item.unitPriceCents ?? 0 };
+}
+
+async function lineItemsOf(job: Job, transaction?: Transaction) {
+  return JobLineItem.findAll({
+    where: { networkId: job.networkId, jobId: job.id },
+    order: [['position', 'ASC'], ['createdAt', 'ASC']],
+    transaction,
+  });
+}
+
+export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail> {
+  const base = await readableJob(actor, jobId);
+  const job = (await Job.findOne({
+    where: { networkId: actor.networkId, id: base.id },
+    include: [...summaryIncludes(), { model: User, as: 'openedBy', attributes: ['id', 'name'] }],
+  }))!;
+  const shop = await findShop(actor.networkId, job.shopId);
+  const [items, logs, history, technicians, skills, customer] = await Promise.all([
+    lineItemsOf(job),
+    TimeLog.findAll({
+      where: { networkId: actor.networkId, jobId: job.id },
+      include: [{ model: User, as: 'user', attributes: ['id', 'name'] }],
+      order: [['workedOn', 'DESC'], ['createdAt', 'DESC']],
+    }),
+    HistoryEvent.findAll({
+      where: { networkId: actor.networkId, jobId: job.id },
+      include: [{ model: User, as: 'user', attributes: ['id', 'name'] }],
+      order: [['occurredAt', 'DESC']],
+      limit: 100,
+    }),
+    techniciansAt(actor.networkId, job.shopId),
+    networkSkills(actor.networkId),
+    job.customerId ? Customer.findOne({ where: { networkId: actor.networkId, id: job.customerId } }) : Promise.resolve(null),
+  ]);
+
+  const row = asRow(job);
+  const roles = rolesFor(actor, job.shopId);
+  const canUpdate = actor.ability.can('update', subject('Job', row) as never);
+  const canMove = actor.ability.can('move_stage', subject('Job', row) as never);
+  const moves = canMove ? allowedMoves(job, roles) : [];
+  const contactShown = customer
+    ? actor.ability.can('read', subject('CustomerContact', customer.get({ plain: true }) as Record<string, unknown>) as never)
+    : false;
+
+  const timeLogs: TimeLogDto[] = logs.map((l) => ({
+    id: l.id,
+    user: person(l.user) ?? { id: l.userId, name: 'Former staff' },
+    minutes: l.minutes,
+    workedOn: l.workedOn,
+    note: l.note ?? null,
+    createdAt: iso(l.createdAt)!,
+    mine: l.userId === actor.id,
+  }));
+  const byTech = new Map<string, { user: PersonRef; minutes: number }>();
+  for (const l of timeLogs) {
+    const entry = byTech.get(l.user.id) ?? { user: l.user, minutes: 0 };
+    entry.minutes += l.minutes;
+    byTech.set(l.user.id, entry);
+  }
+
+  return {
+    job: {
+      ...toSummary(job),
+      conditionNotes: job.conditionNotes ?? null,
+      estimatedHours: job.estimatedHours ?? null,
+      estimateApproval:
+        job.estimateApprovedAt && job.estimateApprovedByName && job.estimateApprovalMethod
+          ? { at: iso(job.estimateApprovedAt)!, byName: job.estimateApprovedByName, method: job.estimateApprovalMethod }
+          : null,
+      readyAt: iso(job.readyAt),
+      releasedAt: iso(job.releasedAt),
+      openedBy: person(job.openedBy),
+    },
+    shop: {
+      id: shop.id,
+      name: shop.name,
+      timeZone: shop.timeZone,
+      openingDays: shop.openingDays,
+      laborRateCents: shop.laborRateCents,
+      taxRateBasisPoints: shop.taxRateBasisPoints,
+    },
+    customer: customer
+      ? {
+          id: customer.id,
+          name: customer.name,
+          kind: customer.kind,
+          email: contactShown ? (customer.email ?? null) : null,
+          phone: contactShown ? (customer.phone ?? null) : null,
+          contactShown,
+        }
+      : null,
+    lineItems: items.map(lineDto),
+    totals: estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints),
+    timeLogs,
+    timeByTechnician: [...byTech.values()].sort((a, b) => b.minutes - a.minutes),
+    history: history.map(
+      (h): HistoryDto => ({ id: h.id, kind: h.kind, summary: h.summary, occurredAt: iso(h.occurredAt)!, userName: h.user?.name ?? null }),
+    ),
+    moves,
+    can: {
+      update: canUpdate,
+      moveStage: canMove && moves.length > 0,
+      recordApproval: canUpdate && mayRecordApproval(roles) && !['intake', 'released'].includes(job.stage),
+      editEstimate: canUpdate && !ESTIMATE_FROZEN.includes(job.stage),
+      logTime: canUpdate,
+      addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
+    },
+    options: { technicians, skills },
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Changes to a job
+
+export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await readableJob(actor, jobId, { transaction, lock: true });
+    assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot change jobs at this shop.');
+    if (job.stage === 'released') throw conflict('This job has been released; it can no longer be changed.');
+    const shop = await findShop(actor.networkId, job.shopId, transaction);
+    const changes: Partial<Job> = {};
+    const notes: string[] = [];
+
+    if (input.assignedUserId !== undefined && input.assignedUserId !== job.assignedUserId) {
+      if (input.assignedUserId) {
+        const techs = await techniciansAt(actor.networkId, job.shopId, transaction);
+        const tech = techs.find((t) => t.id === input.assignedUserId);
+        if (!tech) throw badRequest('Some fields need attention.', { assignedUserId: 'Choose a technician of this shop.' });
+        notes.push(`assigned to ${tech.name}`);
+      } else {
+        notes.push('unassigned');
+      }
+      changes.assignedUserId = input.assignedUserId;
+    }
+    if (input.requiredSkillId !== undefined) {
+      if (input.requiredSkillId) {
+        const skill = await Skill.findOne({ where: { networkId: actor.networkId, id: input.requiredSkillId }, transaction });
+        if (!skill) throw badRequest('Some fields need attention.', { requiredSkillId: 'Choose one of the network’s skills.' });
+      }
+      changes.requiredSkillId = input.requiredSkillId;
+    }
+    let promise: string | null | undefined;
+    if (input.promiseInOpeningDays !== undefined) promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+    else if (input.promisedOn !== undefined) promise = input.promisedOn;
+    if (promise !== undefined && promise !== job.promisedOn) {
+      changes.promisedOn = promise;
+      notes.push(promise ? `promised for ${formatCalendarDate(promise)}` : 'promise date cleared');
+    }
+    if (input.complaint !== undefined) changes.complaint = input.complaint;
+    if (input.conditionNotes !== undefined) changes.conditionNotes = input.conditionNotes || null;
+
+    await job.update(changes, { transaction });
+    if (notes.length) {
+      await recordHistory(job, actor.id, 'job_updated', `Job ${job.number}: ${notes.join('; ')}`, { ...changes }, transaction);
+    }
+  });
+  return jobDetail(actor, jobId);
+}
+
+interface MoveResult {
+  job: Job;
+  from: JobStage;
+}
+
+/**
+ * Moves a job through the stage machine inside a transaction the caller owns. People move as
+ * 'person' (their roles at the job's shop decide); the transfer steps move as 'transfer'.
+ */
+export async function applyStageMove(
+  job: Job,
+  to: JobStage,
+  by: { userId: string | null; roles: Role[]; via: 'person' | 'transfer'; note?: string },
+  transaction: Transaction,
+): Promise<MoveResult> {
+  const check = checkMove(job, to, by.roles, by.via);
+  if (!check.ok) {
+    if (check.reason === 'not_your_move') throw new AppError(403, 'forbidden', check.message);
+    throw new AppError(409, 'move_refused', check.message, undefined, { reason: check.reason });
+  }
+  const from = job.stage;
+  const now = new Date();
+  const changes: Partial<Job> = { stage: check.to, stageBeforeHold: check.stageBeforeHold as MainStage | null };
+  if (check.to === 'ready') changes.readyAt = now;
+  if (check.to === 'released') changes.releasedAt = now;
+  // a technician who starts unassigned work takes it
+  if (check.to === 'on_bench' && !job.assignedUserId && by.userId && by.roles.includes('technician')) {
+    changes.assignedUserId = by.userId;
+  }
+  await job.update(changes, { transaction });
+  const label = (s: JobStage) => JOB_STAGE_LABELS[s];
+  const event = await recordHistory(
+    job,
+    by.userId,
+    'stage_changed',
+    `Job ${job.number}: ${label(from)} → ${label(check.to)}${by.note ? ` — ${by.note}` : ''}`,
+    { from, to: check.to, ...(by.note ? { note: by.note } : {}), via: by.via },
+    transaction,
+  );
+  if (check.to === 'released') {
+    // the instrument has gone back to its owner
+    await Instrument.update({ status: 'in_service' }, { where: { networkId: job.networkId, id: job.instrumentId }, transaction });
+  }
+  if (check.to === 'assessed') await queueCustomerMail(job, 'estimate', event.id, transaction);
+  if (check.to === 'ready') await queueCustomerMail(job, 'ready', event.id, transaction);
+  return { job, from };
+}
+
+export async function moveJobStage(actor: Actor, jobId: string, input: z.infer<typeof stageMoveSchema>): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await readableJob(actor, jobId, { transaction, lock: true });
+    assertCan(actor.ability, 'move_stage', 'Job', asRow(job), 'You cannot move jobs at this shop.');
+    await applyStageMove(job, input.to, { userId: actor.id, roles: rolesFor(actor, job.shopId), via: 'person', note: input.note }, transaction);
+  });
+  return jobDetail(actor, jobId);
+}
+
+/** For the transfer steps: put a job on the road, or resume it on arrival. */
+export async function moveJobForTransfer(
+  networkId: string,
+  jobId: string,
+  to: JobStage,
+  userId: string | null,
+  transaction: Transaction,
+): Promise<MoveResult> {
+  const job = await Job.findOne({ where: { networkId, id: jobId }, transaction, lock: transaction.LOCK.UPDATE });
+  if (!job) throw notFound('That job');
+  return applyStageMove(job, to, { userId, roles: [], via: 'transfer' }, transaction);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Customer e-mails
+
+async function queueCustomerMail(job: Job, kind: 'estimate' | 'ready', eventId: string, transaction: Transaction) {
+  if (!job.customerId) return;
+  const [customer, shop, instrument, items] = await Promise.all([
+    Customer.findOne({ where: { networkId: job.networkId, id: job.customerId }, transaction }),
+    Shop.findOne({ where: { networkId: job.networkId, id: job.shopId }, transaction }),
+    Instrument.findOne({ where: { networkId: job.networkId, id: job.instrumentId }, transaction }),
+    lineItemsOf(job, transaction),
+  ]);
+  if (!customer?.email || !shop || !instrument) return;
+  const what = `${INSTRUMENT_FAMILY_LABELS[instrument.family].toLowerCase()} (${instrument.maker}, serial ${instrument.serial})`;
+  const greeting = `Hello ${customer.contactName?.split(',')[0] || customer.name},`;
+  const reach = [shop.phone, shop.email].filter(Boolean).join(' or ');
+  let subject: string;
+  let text: string;
+  if (kind === 'estimate') {
+    const totals = estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints);
+    const lines = items.map((item) => `  ${item.description.padEnd(44)} ${formatCents(lineTotalCents(toEstimateLine(item))).padStart(12)}`);
+    subject = `Estimate for job ${job.number} awaits your approval — ${shop.name}`;
+    text = [
+      greeting,
+      '',
+      `We have looked at your ${what}. Here is our estimate for job ${job.number}:`,
+      '',
+      ...lines,
+      '',
+      `  ${'Subtotal'.padEnd(44)} ${formatCents(totals.subtotalCents).padStart(12)}`,
+      `  ${`Tax (${formatBasisPoints(totals.taxRateBasisPoints)})`.padEnd(44)} ${formatCents(totals.taxCents).padStart(12)}`,
+      `  ${'Total'.padEnd(44)} ${formatCents(totals.totalCents).padStart(12)}`,
+      '',
+      `Work starts once you approve. Reply to this e-mail${reach ? ` or contact us at ${reach}` : ''}.`,
+      '',
+      shop.name,
+    ].join('\n');
+  } else {
+    subject = `Your ${INSTRUMENT_FAMILY_LABELS[instrument.family].toLowerCase()} is ready — job ${job.number}, ${shop.name}`;
+    text = [
+      greeting,
+      '',
+      `Your ${what} has passed its final check and is ready to collect at ${shop.name}${shop.addressLine ? `, ${shop.addressLine}, ${shop.city ?? ''}` : ''}.`,
+      '',
+      reach ? `Questions? Contact us at ${reach}.` : '',
+      '',
+      shop.name,
+    ].join('\n');
+  }
+  await queueEmail(
+    { networkId: job.networkId, dedupeKey: `job-${kind}-${job.id}-${eventId}`, to: customer.email, subject, text },
+    transaction,
+  );
+}
+
+// ---------------------------------------------------------------------------------------------
+// Estimate: line items and approval
+
+async function editableJob(actor: Actor, jobId: string, transaction: Transaction) {
+  const job = await readableJob(actor, jobId, { transaction, lock: true });
+  assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot change jobs at this shop.');
+  if (ESTIMATE_FROZEN.includes(job.stage)) throw conflict('The work is finished; the estimate can no longer change.');
+  return job;
+}
+
+/** Keeps the job's estimated hours (read by routing and bench load) equal to its labor lines. */
+async function refreshEstimatedHours(job: Job, transaction: Transaction) {
+  const items = await lineItemsOf(job, transaction);
+  const hours = laborHours(items.map(toEstimateLine));
+  await job.update({ estimatedHours: items.some((i) => i.kind === 'labor') ? hours : null }, { transaction });
+}
+
+export async function addLineItem(actor: Actor, jobId: string, input: LineItemCreate): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await editableJob(actor, jobId, transaction);
+    const shop = await findShop(actor.networkId, job.shopId, transaction);
+    const last = (await JobLineItem.max('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) as number | null;
+    const position = (last ?? -1) + 1;
+    if (input.kind === 'labor') {
+      const item = await ServiceCatalogItem.findOne({ where: { networkId: actor.networkId, id: input.catalogItemId, active: true }, transaction });
+      if (!item) throw badRequest('Some fields need attention.', { catalogItemId: 'Choose an active service from the catalog.' });
+      const instrument = await Instrument.findOne({ where: { networkId: actor.networkId, id: job.instrumentId }, transaction });
+      if (item.family && instrument && item.family !== instrument.family) {
+        throw badRequest('Some fields need attention.', {
+          catalogItemId: `That service is for a ${INSTRUMENT_FAMILY_LABELS[item.family as InstrumentFamily].toLowerCase()}.`,
+        });
+      }
+      await JobLineItem.create(
+        {
+          networkId: actor.networkId,
+          jobId: job.id,
+          kind: 'labor',
+          catalogItemId: item.id,
+          description: input.description ?? item.name,
+          hours: input.hours ?? item.standardHours,
+          // the shop's rate when the line is added: a later rate change does not rewrite an estimate
+          rateCents: shop.laborRateCents,
+          position,
+        },
+        { transaction },
+      );
+      if (!job.requiredSkillId && item.skillId) await job.update({ requiredSkillId: item.skillId }, { transaction });
+    } else {
+      if (input.partId) {
+        const part = await Part.findOne({ where: { networkId: actor.networkId, id: input.partId }, transaction });
+        if (!part) throw badRequest('Some fields need attention.', { partId: 'That part is not in the network’s parts list.' });
+      }
+      await JobLineItem.create(
+        {
+          networkId: actor.networkId,
+          jobId: job.id,
+          kind: 'part',
+          partId: input.partId ?? null,
+          description: input.description,
+          quantity: input.quantity,
+          unitPriceCents: input.unitPriceCents,
+          position,
+        },
+        { transaction },
+      );
+    }
+    await refreshEstimatedHours(job, transaction);
+  });
+  return jobDetail(actor, jobId);
+}
+
+async function findLineItem(actor: Actor, job: Job, itemId: string, transaction: Transaction) {
+  const item = await JobLineItem.findOne({ where: { networkId: actor.networkId, jobId: job.id, id: itemId }, transaction });
+  if (!item) throw notFound('That line');
+  return item;
+}
+
+export async function updateLineItem(
+  actor: Actor,
+  jobId: string,
+  itemId: string,
+  input: z.infer<typeof lineItemUpdateSchema>,
+): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await editableJob(actor, jobId, transaction);
+    const item = await findLineItem(actor, job, itemId, transaction);
+    const changes: Partial<JobLineItem> = {};
+    if (input.description !== undefined) changes.description = input.description;
+    if (item.kind === 'labor') {
+      if (input.quantity !== undefined || input.unitPriceCents !== undefined) {
+        throw badRequest('Some fields need attention.', { quantity: 'Labor lines have hours, not quantities.' });
+      }
+      if (input.hours !== undefined) changes.hours = input.hours;
+    } else {
+      if (input.hours !== undefined) throw badRequest('Some fields need attention.', { hours: 'Part lines have quantities, not hours.' });
+      if (input.quantity !== undefined) changes.quantity = input.quantity;
+      if (input.unitPriceCents !== undefined) changes.unitPriceCents = input.unitPriceCents;
+    }
+    await item.update(changes, { transaction });
+    await refreshEstimatedHours(job, transaction);
+  });
+  return jobDetail(actor, jobId);
+}
+
+export async function removeLineItem(actor: Actor, jobId: string, itemId: string): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await editableJob(actor, jobId, transaction);
+    const item = await findLineItem(actor, job, itemId, transaction);
+    await item.destroy({ transaction });
+    await refreshEstimatedHours(job, transaction);
+  });
+  return jobDetail(actor, jobId);
+}
+
+/**
+ * Records who approved the estimate, when and how. A job waiting at Assessed moves on to Approved
+ * in the same step, because that approval is exactly what the move waits for.
+ */
+export async function recordApproval(actor: Actor, jobId: string, input: z.infer<typeof approvalSchema>): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await readableJob(actor, jobId, { transaction, lock: true });
+    assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot change jobs at this shop.');
+    const roles = rolesFor(actor, job.shopId);
+    if (!mayRecordApproval(roles)) throw forbidden('Front desk or a manager records the customer’s approval.');
+    if (job.stage === 'intake') throw conflict('Assess the job and send the estimate before recording an approval.');
+    if (job.stage === 'released') throw conflict('This job has been released.');
+    const at = input.approvedAt ? new Date(input.approvedAt) : new Date();
+    if (at.getTime() > Date.now() + 5 * 60_000) throw badRequest('Some fields need attention.', { approvedAt: 'That is in the future.' });
+    await job.update(
+      { estimateApprovedAt: at, estimateApprovedByName: input.approvedByName, estimateApprovalMethod: input.method },
+      { transaction },
+    );
+    await recordHistory(
+      job,
+      actor.id,
+      'estimate_approved',
+      `Job ${job.number}: estimate approved by ${input.approvedByName} (${ESTIMATE_APPROVAL_METHOD_LABELS[input.method].toLowerCase()})`,
+      { approvedByName: input.approvedByName, method: input.method, approvedAt: at.toISOString() },
+      transaction,
+    );
+    if (job.stage === 'assessed') {
+      await applyStageMove(job, 'approved', { userId: actor.id, roles, via: 'person' }, transaction);
+    }
+  });
+  return jobDetail(actor, jobId);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Time log
+
+export async function logTime(actor: Actor, jobId: string, input: z.infer<typeof timeLogSchema>): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await readableJob(actor, jobId, { transaction });
+    assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot log time on jobs at this shop.');
+    const shop = await findShop(actor.networkId, job.shopId, transaction);
+    const today = localDate(new Date(), shop.timeZone);
+    const workedOn = input.workedOn ?? today;
+    if (workedOn > today) throw badRequest('Some fields need attention.', { workedOn: 'Time can only be logged for today or earlier.' });
+    await TimeLog.create(
+      { networkId: actor.networkId, jobId: job.id, userId: actor.id, minutes: input.minutes, workedOn, note: input.note || null },
+      { transaction },
+    );
+  });
+  return jobDetail(actor, jobId);
+}
+
+export async function removeTimeLog(actor: Actor, jobId: string, logId: string): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await readableJob(actor, jobId, { transaction });
+    assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot change time on jobs at this shop.');
+    const log = await TimeLog.findOne({ where: { networkId: actor.networkId, jobId: job.id, id: logId }, transaction });
+    if (!log) throw notFound('That time entry');
+    const roles = rolesFor(actor, job.shopId);
+    if (log.userId !== actor.id && !roles.includes('owner') && !roles.includes('regional_manager')) {
+      throw forbidden('Only the person who logged the time, or a manager, can remove it.');
+    }
+    await log.destroy({ transaction });
+  });
+  return jobDetail(actor, jobId);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Service catalog (the owner edits it; the people who write estimates read it)
+
+function catalogDto(item: ServiceCatalogItem): CatalogItemDto {
+  return {
+    id: item.id,
+    name: item.name,
+    family: item.family ?? null,
+    standardHours: item.standardHours,
+    skill: person(item.skill),
+    active: item.active,
+    cautions: cautionsFor(item.name),
+  };
+}
+
+export async function listCatalog(
+  actor: Actor,
+  q: z.infer<typeof catalogQuerySchema>,
+): Promise<{ items: CatalogItemDto[]; skills: PersonRef[] }> {
+  assertCan(actor.ability, 'read', 'ServiceCatalog', undefined, 'You cannot see the service catalog.');
+  const where: WhereOptions[] = [{ networkId: actor.networkId }];
+  if (!q.includeInactive) where.push({ active: true });
+  // a service for "any family" (null) fits every instrument
+  if (q.family) where.push({ [Op.or]: [{ family: q.family }, { family: null }] });
+  const items = await ServiceCatalogItem.findAll({
+    where: { [Op.and]: where },
+    include: [{ model: Skill, as: 'skill', attributes: ['id', 'name'] }],
+    order: [['active', 'DESC'], ['name', 'ASC']],
+  });
+  return { items: items.map(catalogDto), skills: await networkSkills(actor.networkId) };
+}
+
+async function checkSkill(networkId: string, skillId: string | null | undefined) {
+  if (!skillId) return;
+  const skill = await Skill.findOne({ where: { networkId, id: skillId } });
+  if (!skill) throw badRequest('Some fields need attention.', { skillId: 'Choose one of the network’s skills.' });
+}
+
+async function catalogItemById(networkId: string, id: string) {
+  const item = await ServiceCatalogItem.findOne({
+    where: { networkId, id },
+    include: [{ model: Skill, as: 'skill', attributes: ['id', 'name'] }],
+  });
+  if (!item) throw notFound('That service');
+  return item;
+}
+
+export async function createCatalogItem(actor: Actor, input: z.infer<typeof catalogItemSchema>): Promise<CatalogItemDto> {
+  assertCan(actor.ability, 'create', 'ServiceCatalog', undefined, 'Only the owner edits the service catalog.');
+  await checkSkill(actor.networkId, input.skillId);
+  const item = await ServiceCatalogItem.create({ networkId: actor.networkId, ...input, active: input.active ?? true });
+  return catalogDto(await catalogItemById(actor.networkId, item.id));
+}
+
+export async function updateCatalogItem(actor: Actor, id: string, input: z.infer<typeof catalogItemUpdateSchema>): Promise<CatalogItemDto> {
+  const item = await catalogItemById(actor.networkId, id);
+  assertCan(actor.ability, 'update', 'ServiceCatalog', undefined, 'Only the owner edits the service catalog.');
+  await checkSkill(actor.networkId, input.skillId);
+  await item.update(input);
+  return catalogDto(await catalogItemById(actor.networkId, id));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Opening a job (intake)
+
+export interface OpenJobInput {
+  instrumentId: string;
+  shopId: string;
+  customerId?: string | null;
+  complaint: string;
+  conditionNotes?: string | null;
+  /** 'YYYY-MM-DD', a calendar date in the shop's time zone. */
+  promisedOn?: string | null;
+  /**
+   * The client's key for this intake; the intake history event carries it, so the same key never opens
+   * a second job (the caller looks it up first with `findJobOpenedBy`).
+   */
+  requestKey?: string;
+}
+
+/** Advisory-lock class for job numbers; the second key is the network, so networks never wait on each other. */
+const JOB_NUMBER_LOCK_CLASS = 7301;
+
+export const intakeEventKey = (requestKey: string) => `intake:${requestKey}`;
+
+/** The job an earlier request with this key opened, if any (a retried or double-submitted intake). */
+export async function findJobOpenedBy(actor: Actor, requestKey: string, transaction?: Transaction): Promise<Job | null> {
+  const event = await HistoryEvent.findOne({
+    where: { networkId: actor.networkId, idempotencyKey: intakeEventKey(requestKey) },
+    transaction,
+  });
+  if (!event?.jobId) return null;
+  return Job.findOne({ where: { networkId: actor.networkId, id: event.jobId }, transaction });
+}
+
+/**
+ * Opens a job at a shop for an instrument: the next job number of the network, stage intake, the
+ * instrument moved into the shop, and the timeline's `intake` and `job_opened` events.
+ *
+ * Job numbers are what people say on the phone, so they are dense per network. Two desks opening
+ * jobs at once would both read the same max(number); a transaction-scoped advisory lock per network
+ * makes them take turns for the few milliseconds between reading and inserting.
+ */
+export async function openJob(actor: Actor, input: OpenJobInput, transaction?: Transaction): Promise<Job> {
+  if (!transaction) return sequelize.transaction((t) => openJob(actor, input, t));
+  const t = { transaction };
+  const networkId = actor.networkId;
+
+  const shop = await Shop.findOne({ where: { networkId, id: input.shopId }, ...t });
+  if (!shop) throw notFound('That shop');
+  assertCan(actor.ability, 'create', 'Job', { shopId: shop.id }, `You cannot open jobs at ${shop.name}.`);
+
+  const instrument = await Instrument.findOne({ where: { networkId, id: input.instrumentId }, ...t, lock: transaction.LOCK.UPDATE });
+  if (!instrument) throw notFound('That instrument');
+  if (instrument.status === 'retired') {
+    throw conflict('This instrument is retired from service; it cannot be taken in for work.');
+  }
+
+  const complaint = input.complaint.trim();
+  if (complaint.length < 3) throw badRequest('Some fields need attention.', { complaint: 'Write what the customer reports.' });
+  if (input.promisedOn && input.promisedOn < localDate(new Date(), shop.timeZone)) {
+    throw badRequest('Some fields need attention.', { promisedOn: 'The promised date cannot be in the past.' });
+  }
+
+  // one visit at a time: the instrument row lock above makes this check and the insert one step
+  const open = await Job.findOne({
+    where: { networkId, instrumentId: instrument.id, stage: OPEN_JOB_STAGES },
+    include: [{ association: 'shop', attributes: ['name'] }],
+    ...t,
+  });
+  if (open) {
+    throw new AppError(
+      409,
+      'open_job_exists',
+      `This instrument already has job ${open.number} open at ${open.shop?.name ?? 'another shop'} (${JOB_STAGE_LABELS[open.stage as JobStage].toLowerCase()}).`,
+      undefined,
+      { jobId: open.id, jobNumber: open.number },
+    );
+  }
+
+  await sequelize.query('select pg_advisory_xact_lock(:lockClass, hashtext(:networkId))', {
+    replacements: { lockClass: JOB_NUMBER_LOCK_CLASS, networkId },
+    type: QueryTypes.SELECT,
+    ...t,
+  });
+  const [{ next }] = await sequelize.query<{ next: number }>(
+    'select coalesce(max(number), 0)::int + 1 as next from jobs where network_id = :networkId',
+    { replacements: { networkId }, type: QueryTypes.SELECT, ...t },
+  );
+
+  const now = new Date();
+  const job = await Job.create(
+    {
+      networkId,
+      number: next,
+      instrumentId: instrument.id,
+      shopId: shop.id,
+      customerId: input.customerId ?? null,
+      stage: 'intake',
+      complaint,
+      conditionNotes: input.conditionNotes?.trim() || null,
+      promisedOn: input.promisedOn ?? null,
+      openedByUserId: actor.id,
+      openedAt: now,
+    },
+    t,
+  );
+
+  if (instrument.currentShopId !== shop.id || instrument.status !== 'in_shop') {
+    await instrument.update({ currentShopId: shop.id, status: 'in_shop' }, t);
+  }
+
+  await HistoryEvent.bulkCreate(
+    [
+      {
+        networkId, instrumentId: instrument.id, jobId: job.id, shopId: shop.id, userId: actor.id, kind: 'intake',
+        summary: `Checked in at ${shop.name}: ${complaint}`,
+        data: { complaint, conditionNotes: job.conditionNotes, promisedOn: job.promisedOn },
+        occurredAt: now,
+        idempotencyKey: input.requestKey ? intakeEventKey(input.requestKey) : `job:${job.id}:intake`,
+      },
+      {
+        networkId, instrumentId: instrument.id, jobId: job.id, shopId: shop.id, userId: actor.id, kind: 'job_opened',
+        summary: `Job ${job.number} opened at ${shop.name}`,
+        data: { number: job.number, promisedOn: job.promisedOn },
+        // a millisecond later, so newest-first lists show the opening above the intake it belongs to
+        occurredAt: new Date(now.getTime() + 1),
+        idempotencyKey: `job:${job.id}:opened`,
+      },
+    ],
+    t,
+  );
+  return job;
+}

@@ -1,0 +1,145 @@
+import type { InstrumentFamily, JobStage } from '../domain.js';
+import type { EstimateTotals } from './estimate.js';
+import type { MoveOption } from './stage-machine.js';
+import type { EstimateApprovalMethod } from './schemas.js';
+
+/** The JSON the jobs API answers with; the client reads the same types. Dates are ISO strings. */
+
+export interface PersonRef {
+  id: string;
+  name: string;
+}
+
+export interface JobSummary {
+  id: string;
+  number: number;
+  stage: JobStage;
+  stageBeforeHold: JobStage | null;
+  shop: { id: string; name: string; timeZone: string };
+  instrument: { id: string; family: InstrumentFamily; maker: string; model: string | null; serial: string };
+  customerName: string | null;
+  complaint: string;
+  assignee: PersonRef | null;
+  requiredSkill: PersonRef | null;
+  /** 'YYYY-MM-DD' on the shop's calendar. */
+  promisedOn: string | null;
+  overdue: boolean;
+  estimateApproved: boolean;
+  openedAt: string;
+  updatedAt: string;
+}
+
+export interface BoardResponse {
+  shop: { id: string; name: string; timeZone: string };
+  jobs: JobSummary[];
+  total: number;
+  page: number;
+  pageSize: number;
+  /** Jobs per stage under the other filters (so each stage tab shows what picking it would list). */
+  counts: Partial<Record<JobStage, number>>;
+  filters: { technicians: PersonRef[]; skills: PersonRef[] };
+}
+
+export interface LineItemDto {
+  id: string;
+  kind: 'labor' | 'part';
+  catalogItemId: string | null;
+  partId: string | null;
+  description: string;
+  hours: number | null;
+  rateCents: number | null;
+  quantity: number | null;
+  unitPriceCents: number | null;
+  position: number;
+  totalCents: number;
+  /** Safety cautions for the work this line names (adhesives, solvents, heat, abrasives, lifting). */
+  cautions: string[];
+}
+
+export interface TimeLogDto {
+  id: string;
+  user: PersonRef;
+  minutes: number;
+  workedOn: string;
+  note: string | null;
+  createdAt: string;
+  mine: boolean;
+}
+
+export interface HistoryDto {
+  id: string;
+  kind: string;
+  summary: string;
+  occurredAt: string;
+  userName: string | null;
+}
+
+export interface JobDetail {
+  job: JobSummary & {
+    conditionNotes: string | null;
+    estimatedHours: number | null;
+    estimateApproval: { at: string; byName: string; method: EstimateApprovalMethod } | null;
+    readyAt: string | null;
+    releasedAt: string | null;
+    openedBy: PersonRef | null;
+  };
+  shop: {
+    id: string;
+    name: string;
+    timeZone: string;
+    openingDays: number[];
+    laborRateCents: number;
+    taxRateBasisPoints: number;
+  };
+  customer: { id: string; name: string; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
+  lineItems: LineItemDto[];
+  totals: EstimateTotals;
+  timeLogs: TimeLogDto[];
+  timeByTechnician: Array<{ user: PersonRef; minutes: number }>;
+  history: HistoryDto[];
+  /** Stage moves this person may make now (blocked ones say why). */
+  moves: MoveOption[];
+  can: {
+    update: boolean;
+    moveStage: boolean;
+    recordApproval: boolean;
+    editEstimate: boolean;
+    logTime: boolean;
+    addAttachment: boolean;
+  };
+  options: { technicians: PersonRef[]; skills: PersonRef[] };
+}
+
+export interface CatalogItemDto {
+  id: string;
+  name: string;
+  family: InstrumentFamily | null;
+  standardHours: number;
+  skill: PersonRef | null;
+  active: boolean;
+  cautions: string[];
+}
+
+export interface AttachmentDto {
+  id: string;
+  kind: 'photo' | 'document';
+  tag: 'before' | 'after' | 'detail' | null;
+  caption: string | null;
+  contentType: string;
+  sizeBytes: number;
+  status: 'pending' | 'stored' | 'failed';
+  jobId: string | null;
+  jobNumber: number | null;
+  instrumentId: string;
+  uploadedBy: PersonRef | null;
+  createdAt: string;
+  /** Short-lived presigned GET links (photos only); documents go through the download route. */
+  url: string | null;
+  thumbnailUrl: string | null;
+  canDelete: boolean;
+}
+
+export interface UploadTicket {
+  attachment: AttachmentDto;
+  upload: { url: string; method: 'PUT'; headers: Record<string, string>; expiresAt: string };
+}

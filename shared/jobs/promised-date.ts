@@ -1,0 +1,101 @@
+import { addDays, format, getISODay, parseISO, startOfDay } from 'date-fns';
+import { TZDate } from '@date-fns/tz';
+import type { IsoWeekday } from '../domain.js';
+
+/**
+ * Promised dates are counted in the shop's opening days, on the shop's own calendar.
+ *
+ * The rule: take the calendar date of `from` in the shop's time zone (a job opened at 23:30 in Denver
+ * on a Friday was opened on Friday, whatever UTC says); that day itself does not count; count forward
+ * over the days the shop opens (ISO weekdays, Monday = 1) and promise the N-th. Zero days means "today
+ * if the shop is open today, else its next opening day". Closed days — weekends, a shop's day off —
+ * are skipped. Public holidays are not modelled yet: shops set them as notes on the job.
+ *
+ * Counting happens on local calendar days (a TZDate at local midnight), so a daylight-saving change in
+ * the week neither adds nor loses a day.
+ */
+
+export interface ShopCalendar {
+  /** IANA time zone, e.g. America/Denver. */
+  timeZone: string;
+  /** ISO weekdays the shop opens. */
+  openingDays: readonly IsoWeekday[] | readonly number[];
+}
+
+/** Safety net against a calendar with no opening day at all. */
+function assertCalendar(shop: ShopCalendar) {
+  if (!shop.openingDays.length || shop.openingDays.some((d) => !Number.isInteger(d) || d < 1 || d > 7)) {
+    throw new RangeError('A shop needs at least one opening day (ISO weekdays 1–7).');
+  }
+}
+
+/** The calendar date ('YYYY-MM-DD') of an instant in a time zone. */
+export function localDate(instant: Date, timeZone: string): string {
+  return format(new TZDate(instant, timeZone), 'yyyy-MM-dd');
+}
+
+/** Local midnight of a 'YYYY-MM-DD' date in a time zone. */
+function localMidnight(date: string, timeZone: string): TZDate {
+  const [y, m, d] = date.split('-').map(Number);
+  return new TZDate(y, m - 1, d, timeZone);
+}
+
+export function isOpeningDay(date: string, shop: ShopCalendar): boolean {
+  assertCalendar(shop);
+  return (shop.openingDays as readonly number[]).includes(getISODay(localMidnight(date, shop.timeZone)));
+}
+
+/**
+ * The promised date N opening days after `from` (an instant, or a 'YYYY-MM-DD' date already on the
+ * shop's calendar), as 'YYYY-MM-DD' in the shop's time zone.
+ */
+export function addOpeningDays(from: Date | string, openingDays: number, shop: ShopCalendar): string {
+  assertCalendar(shop);
+  if (!Number.isInteger(openingDays) || openingDays < 0 || openingDays > 366) {
+    throw new RangeError(`Opening days must be a whole number from 0 to 366, got ${openingDays}`);
+  }
+  const open = new Set<number>(shop.openingDays as readonly number[]);
+  let day: TZDate =
+    typeof from === 'string' ? localMidnight(from, shop.timeZone) : startOfDay(new TZDate(from, shop.timeZone));
+  if (openingDays === 0) {
+    while (!open.has(getISODay(day))) day = addDays(day, 1);
+    return format(day, 'yyyy-MM-dd');
+  }
+  let counted = 0;
+  while (counted < openingDays) {
+    day = addDays(day, 1);
+    if (open.has(getISODay(day))) counted++;
+  }
+  return format(day, 'yyyy-MM-dd');
+}
+
+/**
+ * Opening days from `from`'s local date up to `promisedOn` (the count `addOpeningDays` would need);
+ * 0 when the promise is today or earlier. Used to show "3 opening days left".
+ */
+export function openingDaysUntil(from: Date, promisedOn: string, shop: ShopCalendar): number {
+  assertCalendar(shop);
+  const open = new Set<number>(shop.openingDays as readonly number[]);
+  let day = startOfDay(new TZDate(from, shop.timeZone));
+  const end = localMidnight(promisedOn, shop.timeZone);
+  let counted = 0;
+  while (day.getTime() < end.getTime()) {
+    day = addDays(day, 1);
+    if (open.has(getISODay(day))) counted++;
+  }
+  return counted;
+}
+
+/**
+ * A promise is overdue once the shop's local date has passed it and the work is not finished
+ * (ready or released jobs kept their promise or are waiting on the customer).
+ */
+export function isOverdue(promisedOn: string | null | undefined, stage: string, now: Date, timeZone: string): boolean {
+  if (!promisedOn || stage === 'ready' || stage === 'released') return false;
+  return localDate(now, timeZone) > promisedOn;
+}
+
+/** "Tue 14 Oct 2025" for a 'YYYY-MM-DD' date; the date is a calendar day, so no time zone shifts it. */
+export function formatCalendarDate(date: string): string {
+  return format(parseISO(date), 'EEE d MMM yyyy');
+}

@@ -1,0 +1,39 @@
+import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, type InstrumentFamily, type JobStage } from '@shared/domain';
+import { formatCalendarDate } from '@shared/jobs/promised-date';
+
+export const stageLabel = (stage: JobStage) => JOB_STAGE_LABELS[stage] ?? stage;
+export const familyLabel = (family: InstrumentFamily | null | undefined) => (family ? INSTRUMENT_FAMILY_LABELS[family] : 'Any family');
+
+/** "1 h 30 min", "45 min". */
+export function formatMinutes(minutes: number): string {
+  const h = Math.floor(minutes / 60);
+  const m = minutes % 60;
+  if (!h) return `${m} min`;
+  return m ? `${h} h ${m} min` : `${h} h`;
+}
+
+/** A moment shown on the shop's clock, e.g. "Mon 9 Mar, 14:05". */
+export function formatInShop(iso: string, timeZone: string): string {
+  return new Intl.DateTimeFormat('en-GB', {
+    timeZone,
+    weekday: 'short',
+    day: 'numeric',
+    month: 'short',
+    hour: '2-digit',
+    minute: '2-digit',
+  }).format(new Date(iso));
+}
+
+export const formatPromise = (date: string | null) => (date ? formatCalendarDate(date) : 'No promise yet');
+
+/**
+ * "12.50" → 1250 cents, read from the digits so no binary fraction creeps in; null when it is not
+ * an amount with at most two decimals.
+ */
+export function parseMoneyToCents(text: string): number | null {
+  const m = /^\s*\$?\s*(\d{1,7})(?:[.,](\d{1,2}))?\s*$/.exec(text);
+  if (!m) return null;
+  return Number(m[1]) * 100 + Number((m[2] ?? '0').padEnd(2, '0'));
+}
+
+export const centsToInput = (cents: number | null | undefined) => (cents == null ? '' : (cents / 100).toFixed(2));
