@@ -2,7 +2,7 @@ import type { Job } from 'bullmq';
 import { sendMail } from '../server/lib/mail.js';
 import { appQueue, createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
-import { applyTransferStep, checkTransferArrival } from '../server/modules/transfers/service.js';
+import { applyTransferStep, checkTransferArrival, scheduleOpenArrivalChecks } from '../server/modules/transfers/service.js';
 import { deliverOutbox, deliverOutboxMessage } from '../server/modules/notifications/service.js';
 import type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../server/modules/transfers/queue.js';
 import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
@@ -72,9 +72,11 @@ export function startWorker(concurrency = 4, tuning: WorkerTuning = {}) {
 }
 
 /**
- * E-mails left pending (their send job gave up while the mail server was down) go out with the next
- * sweep, every ten minutes. Sending is per row and marks the row, so a sweep never repeats a message.
+ * Work a worker sets up when it starts. E-mails left pending (their send job gave up while the mail
+ * server was down) go out with the next sweep, every ten minutes; sending is per row and marks the row,
+ * so a sweep never repeats a message. Every transfer on the road gets its arrival check.
  */
-export async function scheduleOutboxSweep() {
+export async function scheduleStartupWork() {
   await appQueue().upsertJobScheduler('outbox-sweep', { every: 10 * 60_000 }, { name: 'send-outbox', data: {} });
+  await scheduleOpenArrivalChecks();
 }

@@ -1,4 +1,4 @@
-import { scheduleOutboxSweep, startWorker } from './processors.js';
+import { scheduleStartupWork, startWorker } from './processors.js';
 import { logger } from '../server/lib/logger.js';
 import { closeAppQueue, queueBackendKind } from '../server/lib/queue.js';
 import { installProcessHandlers } from '../server/lib/errors.js';
@@ -9,7 +9,7 @@ const worker = startWorker(Number(process.env.WORKER_CONCURRENCY ?? 8), {
   lockDuration: Number(process.env.WORKER_LOCK_MS) || undefined,
   stalledInterval: Number(process.env.WORKER_STALLED_INTERVAL_MS) || undefined,
 });
-scheduleOutboxSweep().catch((err) => logger.warn({ err: err.message }, 'outbox sweep not scheduled'));
+scheduleStartupWork().catch((err) => logger.warn({ err: err.message }, 'startup work not scheduled'));
 logger.info({ backend: queueBackendKind() }, 'worker started');
 
 async function stop(signal: string) {

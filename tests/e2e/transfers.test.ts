@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Worker } from 'bullmq';
-import { Job, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
+import { Instrument, Job, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { startWorker } from '../../workers/processors.js';
 import { launchBrowser, signInInBrowser, startAppServer } from '../helpers/browser.js';
 import { closeServerResources } from '../helpers/close.js';
-import { makeInstrumentWithJob, uniq } from '../helpers/factories.js';
+import { uniq } from '../helpers/factories.js';
 
 /**
  * The regional manager requests a transfer of a baritone saxophone from Seattle, approves it from the
@@ -30,13 +30,15 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     // a fresh baritone at Seattle, so the test owns its rows
     serial = `AB-${uniq().slice(0, 6).toUpperCase()} 9`;
     const manager = (await User.findOne({ where: { networkId, email: demoPeople[1].email } }))!;
-    const { job } = await makeInstrumentWithJob(networkId, shops.SEA.id, manager.id, {
-      family: 'baritone_saxophone',
-      serial,
-      maker: 'Aldmoor',
-      stage: 'assessed',
+    const instrument = await Instrument.create({
+      networkId, family: 'baritone_saxophone', maker: 'Aldmoor', model: 'BS-900', serial, ownerKind: 'rental_fleet', currentShopId: shops.SEA.id,
     });
-    await job.update({ requiredSkillId: lowSax.id, estimatedHours: 10, complaint: 'Low B-flat pad leaks; bow guard rattles.' });
+    // the next job number of the demo network: other browser tests open jobs there too
+    const number = ((await Job.max<number, Job>('number', { where: { networkId } })) ?? 1000) + 1;
+    const job = await Job.create({
+      networkId, number, instrumentId: instrument.id, shopId: shops.SEA.id, stage: 'assessed', openedByUserId: manager.id,
+      requiredSkillId: lowSax.id, estimatedHours: 10, complaint: 'Low B-flat pad leaks; bow guard rattles.',
+    });
     jobNumber = job.number;
     worker = startWorker(4);
     app = await startAppServer();

@@ -771,6 +771,17 @@ export async function writeManifest(networkId: string, transferId: string) {
 }
 
 /**
+ * Arrival checks for every transfer on the road, added again at worker start: transfers that went on the
+ * road before the queue knew them (loaded data, a queue that was emptied) still get theirs. The fixed job
+ * id makes this a no-op for those already scheduled.
+ */
+export async function scheduleOpenArrivalChecks() {
+  const onRoad = await Transfer.findAll({ where: { state: 'in_transit', expectedArrivalAt: { [Op.ne]: null } }, limit: 10_000 });
+  for (const t of onRoad) await scheduleArrivalCheck({ networkId: t.networkId, transferId: t.id }, t.expectedArrivalAt!);
+  return onRoad.length;
+}
+
+/**
  * The delayed job at the expected arrival: a transfer still on the road is overdue, and the managers of
  * both shops (or the owners, where a shop has none) are told once.
  */

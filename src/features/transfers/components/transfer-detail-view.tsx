@@ -57,13 +57,16 @@ export function TransferDetailView({ id, currentUserId, hrefFor }: TransferDetai
         </div>
         <p className="text-ink-600">
           {[t.instrument.maker, t.instrument.model].filter(Boolean).join(' ')} · serial <span className="font-mono text-ink-800">{t.instrument.serial}</span>
-          {t.instrument.assetTag ? ` · tag ${t.instrument.assetTag}` : ''}
+          {t.instrument.assetTag ? ` · tag ${t.instrument.assetTag}` : ''} ·{' '}
+          <Link to={hrefFor(`/registry/instruments/${t.instrument.id}`)} className="font-semibold text-accent-700 underline-offset-2 hover:underline">
+            Instrument history
+          </Link>
         </p>
       </header>
 
       <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="flex flex-col gap-6">
-          <Facts t={t} />
+          <Facts t={t} hrefFor={hrefFor} />
           <Timeline t={t} />
         </div>
         <div className="flex flex-col gap-4">
@@ -84,9 +87,9 @@ export function TransferDetailView({ id, currentUserId, hrefFor }: TransferDetai
   );
 }
 
-function Facts({ t }: { t: TransferDetail }) {
+function Facts({ t, hrefFor }: { t: TransferDetail; hrefFor: (path: string) => string }) {
   const rows: Array<[string, ReactNode]> = [
-    ['Job', <Link key="job" className="font-semibold text-accent-700 underline-offset-2 hover:underline" to={`/jobs/${t.job.id}`}>Job {t.job.number} · {JOB_STAGE_LABELS[t.job.stage]}</Link>],
+    ['Job', <Link key="job" className="font-semibold text-accent-700 underline-offset-2 hover:underline" to={hrefFor(`/jobs/${t.job.id}`)}>Job {t.job.number} · {JOB_STAGE_LABELS[t.job.stage]}</Link>],
     ['Complaint', t.job.complaint],
     ['Reason', t.reason],
     ['Requested', `${formatInShop(t.requestedAt, t.fromShop.timeZone)}${t.requestedBy ? ` by ${t.requestedBy.name}` : ''}`],
