@@ -1,5 +1,8 @@
 import type { QueryInterface } from 'sequelize';
 import * as initialSchema from './0001-initial-schema.js';
+import * as peopleAndInvitations from './0002-people-and-invitations.js';
+import * as partTransfers from './0005-part-transfers.js';
+import * as reportIndexes from './0007-report-indexes.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -9,4 +12,7 @@ type Step = (params: { context: QueryInterface }) => Promise<void>;
  */
 export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0001-initial-schema', ...initialSchema },
+  { name: '0002-people-and-invitations', ...peopleAndInvitations },
+  { name: '0005-part-transfers', ...partTransfers },
+  { name: '0007-report-indexes', ...reportIndexes },
 ];

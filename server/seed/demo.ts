@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { CreationAttributes, Transaction } from 'sequelize';
+import { QueryTypes, type CreationAttributes, type Transaction } from 'sequelize';
 import { JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind, type Role } from '../../shared/domain.js';
 import {
   Customer,
@@ -12,6 +12,7 @@ import {
   Membership,
   Network,
   Notification,
+  PadMap,
   Part,
   RelayRun,
   ServiceCatalogItem,
@@ -27,6 +28,8 @@ import {
   sequelize,
 } from '../lib/models.js';
 import { demoPeople } from './demo-people.js';
+import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
+import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
 
 /**
  * The demo network: an invented chain of five band-instrument repair shops with people in every
@@ -853,6 +856,53 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   });
   await HistoryEvent.bulkCreate(history, t);
 
+  // Pad maps of earlier repads of Aldmoor AS-300 altos, so the network has sizes to suggest for the
+  // next AS-300 and the next repad of each of these serials starts from its map. The nominal cups
+  // are invented; each horn varies a little around them.
+  const AS300_CUPS: Record<string, [cup: number, depth: number]> = {
+    low_bb: [45.8, 4.4], low_b: [45.3, 4.4], low_cs: [26.6, 3.8], low_c: [42.4, 4.3], low_eb: [27.3, 3.8], d: [36.8, 4.1],
+    c: [33.2, 4.0], b: [25.6, 3.7], a: [26.2, 3.7], g: [24.4, 3.6], gs: [17.8, 3.3], f: [31.3, 3.9], e: [33.6, 4.0], fs: [20.2, 3.4],
+    bis_bb: [9.8, 2.8], side_bb: [14.2, 3.0], side_c: [14.7, 3.0], high_e: [14.1, 3.0], high_fs: [11.6, 2.9], palm_d: [16.3, 3.1],
+    palm_eb: [15.6, 3.1], palm_f: [15.1, 3.1], front_f: [11.1, 2.9], octave_body: [7.2, 2.6], octave_neck: [8.3, 2.6],
+  };
+  const padCatalog: PadCatalog = { self_leveling: [], glued: [] };
+  for (const p of partRows) {
+    if (p.kind !== 'pad' || !p.padKind) continue;
+    padCatalog[p.padKind as 'glued' | 'self_leveling'].push({ diameterMm: Number(p.diameterMm), thicknessMm: Number(p.thicknessMm), partId: p.id!, sku: p.sku, name: p.name, unitPriceCents: p.unitPriceCents });
+  }
+  const round2 = (n: number) => Math.round(n * 100) / 100;
+  const padMapRows: Array<CreationAttributes<PadMap>> = [];
+  const padMapEvents: Array<CreationAttributes<HistoryEvent>> = [];
+  for (const key of ['alto1', 'alto3', 'alto7', 'alto9', 'alto10']) {
+    const visit = planned.filter((j) => j.inst.key === key && j.stage === 'released').at(-1);
+    if (!visit) continue;
+    const entries = Object.entries(AS300_CUPS).map(([keyId, [cup, depth]]) => {
+      const cupMm = round2(cup + (rand() - 0.5) * 0.3);
+      const depthMm = round2(depth + (rand() - 0.5) * 0.2);
+      const rimMm = round2(cupMm - 2.6 - rand() * 0.8);
+      return {
+        keyId, keyName: null, padKind: 'glued' as const, floor: 'flat' as const, cupDiameterMm: cupMm, cupDepthMm: depthMm, rimDiameterMm: rimMm,
+        typed: { cupDiameter: String(cupMm), cupDepth: String(depthMm), rimDiameter: String(rimMm) },
+      };
+    });
+    const result = computePadMap({ entries, catalog: padCatalog, rules: DEFAULT_PAD_RULES });
+    const at = new Date(visit.path.find(([s]) => s === 'on_bench')?.[1] ?? visit.openedAt);
+    const by = visit.assignee ? userId[visit.assignee] : userId.owner;
+    const id = randomUUID();
+    padMapRows.push({
+      id, networkId, instrumentId: instrumentId.get(key)!, jobId: visit.id, shopId: shopId[visit.shop], unitSystem: 'mm',
+      entries: entries as unknown as Array<Record<string, unknown>>, results: result.keys as unknown as Array<Record<string, unknown>>,
+      createdByUserId: by, createdAt: at, updatedAt: at,
+    });
+    padMapEvents.push({
+      networkId, instrumentId: instrumentId.get(key)!, jobId: visit.id, shopId: shopId[visit.shop], userId: by, kind: 'pad_map_saved',
+      summary: `Pad map saved at ${SHOP_NAME[visit.shop]}: ${result.counts.padsChosen} pads (0 self-leveling, ${result.counts.padsChosen} glued)`,
+      data: { padMapId: id, pads: result.counts.padsChosen }, occurredAt: at,
+    });
+  }
+  await PadMap.bulkCreate(padMapRows, t);
+  await HistoryEvent.bulkCreate(padMapEvents, t);
+
   // a few notices so the inbox is not empty
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
   await Notification.bulkCreate(
@@ -868,7 +918,98 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     t,
   );
 
+  await addSummerRentalRush(transaction, now, {
+    networkId, shopId, laborRate: (code) => shopByCode[code].laborRateCents, catalogId, catalogByKey, skillId,
+    deskFor: (code) => userId[deskFor(code)], fleetCustomerId: customerId.FLEET,
+  });
+
   return networkId;
+}
+
+// ---------------------------------------------------------------------------------------------
+// The late-summer school-rental rush: before the school year the rental fleet comes back in waves for
+// inspection, so the weekly intake chart shows a ridge from late July into early September.
+
+interface RushContext {
+  networkId: string;
+  shopId: Record<ShopCode, string>;
+  laborRate: (code: ShopCode) => number;
+  catalogId: Record<CatalogKey, string>;
+  catalogByKey: Record<CatalogKey, { name: string; hours: number; skill: SkillCode }>;
+  skillId: Record<SkillCode, string>;
+  deskFor: (code: ShopCode) => string;
+  fleetCustomerId: string;
+}
+
+/** Rental returns per week, starting the third week of July: a ramp up and a tail off. */
+const RUSH_WEEKS = [2, 4, 7, 11, 14, 12, 8, 4];
+const RUSH_FAMILIES: Array<{ family: InstrumentFamily; maker: MakerKey; model: string; service: CatalogKey }> = [
+  { family: 'flute', maker: 'Q', model: 'Q-100 Student', service: 'leak_test' },
+  { family: 'clarinet', maker: 'O', model: 'Student 2', service: 'play_woodwind' },
+  { family: 'alto_saxophone', maker: 'A', model: 'AS-300', service: 'play_woodwind' },
+  { family: 'trumpet', maker: 'B', model: 'BT-200', service: 'chem_clean' },
+  { family: 'trombone', maker: 'B', model: 'BT-40', service: 'slide_align' },
+];
+
+async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: RushContext): Promise<void> {
+  const t = { transaction };
+  const rand = prng(20_260_720);
+  // the most recent rush that is over: the third Monday of July of this year, or last year's
+  let year = now.getUTCFullYear();
+  if (now.getTime() < Date.UTC(year, 8, 20)) year -= 1;
+  const julyFirst = new Date(Date.UTC(year, 6, 1, 16));
+  const firstMonday = new Date(julyFirst.getTime() + ((8 - (julyFirst.getUTCDay() || 7)) % 7) * DAY);
+  const start = new Date(firstMonday.getTime() + 14 * DAY);
+
+  const [{ max }] = await sequelize.query<{ max: number }>('select coalesce(max(number), 1000)::int as max from jobs where network_id = :networkId', {
+    ...t, type: QueryTypes.SELECT, replacements: { networkId: ctx.networkId },
+  });
+  let number = max + 1;
+  const rushShops: ShopCode[] = ['SEA', 'SEA', 'PDX', 'SAC', 'DEN', 'CHI'];
+  const instruments: Array<CreationAttributes<Instrument>> = [];
+  const jobs: Array<CreationAttributes<Job>> = [];
+  const lines: Array<CreationAttributes<JobLineItem>> = [];
+  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  let n = 0;
+  RUSH_WEEKS.forEach((count, week) => {
+    for (let i = 0; i < count; i++, n++) {
+      const kind = RUSH_FAMILIES[n % RUSH_FAMILIES.length];
+      const shop = rushShops[n % rushShops.length];
+      const instrumentId = randomUUID();
+      const jobId = randomUUID();
+      const openedAt = new Date(start.getTime() + week * 7 * DAY + Math.floor(rand() * 5) * DAY + Math.floor(rand() * 8) * HOUR);
+      const readyAt = new Date(openedAt.getTime() + (0.5 + rand() * 4) * DAY);
+      const releasedAt = new Date(readyAt.getTime() + (0.5 + rand() * 3) * DAY);
+      const cat = ctx.catalogByKey[kind.service];
+      instruments.push({
+        id: instrumentId, networkId: ctx.networkId, family: kind.family, maker: MAKERS[kind.maker].name, model: kind.model,
+        serial: `RR-${year}-${String(n + 1).padStart(3, '0')}`, ownerKind: 'rental_fleet', ownerCustomerId: ctx.fleetCustomerId,
+        currentShopId: ctx.shopId[shop], status: 'in_service', assetTag: `HBR-R${year}-${String(n + 1).padStart(3, '0')}`,
+        yearMade: 2015 + (n % 9),
+      });
+      jobs.push({
+        id: jobId, networkId: ctx.networkId, number: number++, instrumentId, shopId: ctx.shopId[shop], customerId: ctx.fleetCustomerId,
+        stage: 'released', complaint: 'Rental return: inspection before the school year.', conditionNotes: 'Normal rental wear.',
+        promisedOn: localDate(new Date(openedAt.getTime() + 5 * DAY), SHOPS.find((x) => x.code === shop)!.timeZone), requiredSkillId: ctx.skillId[cat.skill],
+        estimatedHours: cat.hours, estimateApprovedAt: openedAt, estimateApprovedByName: 'Rental desk', estimateApprovalMethod: 'email',
+        openedByUserId: ctx.deskFor(shop), openedAt, readyAt, releasedAt,
+      });
+      lines.push({
+        networkId: ctx.networkId, jobId, kind: 'labor', catalogItemId: ctx.catalogId[kind.service], description: cat.name,
+        hours: cat.hours, rateCents: ctx.laborRate(shop), position: 0,
+      });
+      const by = ctx.deskFor(shop);
+      history.push(
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'intake', summary: 'Checked in: rental return inspection', data: {}, occurredAt: openedAt },
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'stage_changed', summary: `Job ${number - 1}: intake → ready`, data: { from: 'intake', to: 'ready' }, occurredAt: readyAt },
+        { networkId: ctx.networkId, instrumentId, jobId, shopId: ctx.shopId[shop], userId: by, kind: 'stage_changed', summary: `Job ${number - 1}: ready → released`, data: { from: 'ready', to: 'released' }, occurredAt: releasedAt },
+      );
+    }
+  });
+  await Instrument.bulkCreate(instruments, t);
+  await Job.bulkCreate(jobs, t);
+  await JobLineItem.bulkCreate(lines, t);
+  await HistoryEvent.bulkCreate(history, t);
 }
 
 /** Row counts of the demo network, table by table (for the script's report and for checks). */
@@ -876,7 +1017,7 @@ export async function countNetworkRows(networkId: string): Promise<Record<string
   const tables = [
     'shops', 'skills', 'shop_skills', 'relay_runs', 'users', 'memberships', 'technician_skills', 'service_catalog',
     'parts', 'stock_levels', 'stock_reservations', 'customers', 'instruments', 'jobs', 'job_line_items', 'time_logs',
-    'history_events', 'transfers', 'notifications',
+    'history_events', 'transfers', 'notifications', 'pad_maps',
   ];
   const [rows] = await sequelize.query(
     tables.map((tb) => `select '${tb}' as t, count(*)::int as n from ${tb} where network_id = :networkId`).join(' union all '),

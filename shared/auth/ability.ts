@@ -16,7 +16,8 @@ export type Action =
 export type SubjectName =
   | 'Network' | 'Shop' | 'Membership' | 'Invitation' | 'AuditLog' | 'ServiceCatalog'
   | 'Customer' | 'CustomerContact' | 'Instrument' | 'Job' | 'Attachment' | 'Transfer'
-  | 'Stock' | 'PadMap' | 'Report' | 'Notification' | 'all';
+  | 'Stock' | 'PadMap' | 'Report' | 'Notification'
+  | 'User' | 'Skill' | 'RelayRun' | 'all';
 
 export type AppAbility = MongoAbility<[Action, SubjectName | Record<string, unknown>], MongoQuery>;
 export type AppRule = RawRuleOf<AppAbility>;
@@ -53,14 +54,20 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
   const audited = shopsWithRole(user, 'auditor');
   const anyShop = [...new Set([...managed, ...desk, ...bench, ...audited])];
 
-  if (anyShop.length) can('read', 'Shop', { id: { $in: anyShop } });
+  if (anyShop.length) {
+    can('read', 'Shop', { id: { $in: anyShop } });
+    // The skills list names what jobs need; relay runs that touch a shop are part of its week.
+    can('read', 'Skill');
+    can('read', 'RelayRun', { fromShopId: { $in: anyShop } });
+    can('read', 'RelayRun', { toShopId: { $in: anyShop } });
+  }
 
   if (managed.length) {
     // A regional manager reads the whole network's registry and jobs, and runs their own shops.
-    can('read', ['Instrument', 'Job', 'Transfer', 'Attachment', 'PadMap', 'Shop', 'ServiceCatalog']);
+    can('read', ['Instrument', 'Job', 'Transfer', 'Attachment', 'PadMap', 'Shop', 'ServiceCatalog', 'RelayRun']);
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: managed } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: managed } });
-    can(['create', 'update'], 'Instrument');
+    can(['create', 'update'], 'Instrument', { currentShopId: { $in: managed } });
     can(['manage'], 'Stock', { shopId: { $in: managed } });
     can(['manage'], ['Attachment', 'PadMap'], { shopId: { $in: managed } });
     can('request', 'Transfer', { fromShopId: { $in: managed } });
@@ -72,7 +79,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
   if (desk.length) {
     // Front desk searches the whole registry (work history), but contact details only of their shops' customers.
     can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
-    can(['create', 'update'], 'Instrument');
+    can(['create', 'update'], 'Instrument', { currentShopId: { $in: desk } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: desk } });
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: desk } });
     can(['create'], 'Attachment', { shopId: { $in: desk } });
@@ -84,6 +91,8 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['pack', 'receive'], 'Transfer', { fromShopId: { $in: desk } });
     can(['receive'], 'Transfer', { toShopId: { $in: desk } });
     can('read', 'Stock', { shopId: { $in: desk } });
+    // their shop's figures on the dashboard; the invoice export, because the counter releases and bills
+    can(['read', 'export'], 'Report', { shopId: { $in: desk } });
   }
 
   if (bench.length) {
@@ -92,8 +101,11 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['update', 'move_stage'], 'Job', { shopId: { $in: bench } });
     can(['create', 'update', 'delete'], ['Attachment', 'PadMap'], { shopId: { $in: bench } });
     can('read', 'Stock', { shopId: { $in: bench } });
+    // a saved pad map can leave the bench short: technicians ask another shop for parts and take them in
+    can(['request', 'receive'], 'Stock', { shopId: { $in: bench } });
     can('read', 'Transfer', { toShopId: { $in: bench } });
     can('read', 'Transfer', { fromShopId: { $in: bench } });
+    can('read', 'Report', { shopId: { $in: bench } });
     // Bench staff may call the customers their shop serves (the registry checks each serving shop as homeShopId).
     can('read', 'CustomerContact', { homeShopId: { $in: bench } });
   }

@@ -12,6 +12,8 @@ export interface NavItem {
 // Only screens that exist are listed. Each new area adds its entry here and its route in router.tsx.
 export const navItems: NavItem[] = [
   { to: '/', label: 'Home', end: true },
+  { to: '/dashboard', label: 'Dashboard', requires: { action: 'read', subject: 'Report' } },
+  { to: '/reports', label: 'Reports', requires: { action: 'read', subject: 'Report' } },
   { to: '/registry', label: 'Registry', requires: { action: 'read', subject: 'Instrument' } },
   { to: '/intake', label: 'Intake', requires: { action: 'create', subject: 'Job' } },
   { to: '/jobs', label: 'Job board', requires: { action: 'read', subject: 'Job' } },
@@ -20,6 +22,8 @@ export const navItems: NavItem[] = [
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
   { to: '/catalog', label: 'Service catalog', requires: { action: 'create', subject: 'ServiceCatalog' } },
+  { to: '/stock', label: 'Stock', requires: { action: 'read', subject: 'Stock' } },
+  { to: '/pad-rules', label: 'Pad rules', requires: { action: 'update', subject: 'Network' } },
 ];
 
 export function visibleNavItems(ability: AppAbility): NavItem[] {

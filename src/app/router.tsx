@@ -1,9 +1,18 @@
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { AppLayout } from './layout/app-layout';
+import { AuditLogRoute } from './routes/audit-log';
+import { DashboardRoute } from './routes/dashboard';
 import { DevMailRoute } from './routes/dev-mail';
+import { AcceptInvitationRoute, InvitationRoute } from './routes/invitation';
+import { InviteRoute } from './routes/invite';
+import { PersonRoute } from './routes/person';
+import { ShopRoute } from './routes/shop';
+import { NewShopRoute } from './routes/shop-new';
 import { HomeRoute } from './routes/home';
 import { NotFoundRoute } from './routes/not-found';
 import { PeopleRoute } from './routes/people';
+import { OverdueRoute, ReportJobsRoute, TransfersInFlightRoute } from './routes/report-lists';
+import { ReportsRoute } from './routes/reports';
 import { RequireAbility } from './routes/require-ability';
 import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
@@ -17,6 +26,9 @@ import { InstrumentRoute } from './routes/instrument';
 import { InstrumentLabelRoute } from './routes/instrument-label';
 import { IntakeRoute } from './routes/intake';
 import { RegistryImportRoute } from './routes/registry-import';
+import { PadMapRoute } from './routes/pad-map';
+import { PadRulesRoute } from './routes/pad-rules';
+import { StockRoute } from './routes/stock';
 import { JobBoardRoute } from './routes/job-board';
 import { MyBenchRoute } from './routes/my-bench';
 import { JobRoute } from './routes/job';
@@ -27,6 +39,9 @@ import { InstrumentPhotosRoute } from './routes/instrument-photos';
 export const routes: RouteObject[] = [
   { path: '/sign-in', element: <SignInRoute />, errorElement: <RouteErrorBoundary /> },
   { path: '/dev/mail', element: <DevMailRoute />, errorElement: <RouteErrorBoundary /> },
+  // an invitation is opened before its person holds any role, so it sits outside the session gate
+  { path: '/invitations/:token', element: <InvitationRoute />, errorElement: <RouteErrorBoundary /> },
+  { path: '/invitations/:token/accept', element: <AcceptInvitationRoute />, errorElement: <RouteErrorBoundary /> },
   {
     path: '/',
     element: <SessionGate />,
@@ -45,10 +60,64 @@ export const routes: RouteObject[] = [
             ),
           },
           {
+            path: 'people/invite',
+            element: (
+              <RequireAbility action="create" subject="Invitation">
+                <InviteRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'people/:id',
+            element: (
+              <RequireAbility action="manage" subject="Membership">
+                <PersonRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'audit-log',
+            element: (
+              <RequireAbility action="read" subject="AuditLog">
+                <AuditLogRoute />
+              </RequireAbility>
+            ),
+          },
+          {
             path: 'shops',
             element: (
               <RequireAbility action="manage" subject="Shop">
                 <ShopsRoute />
+              </RequireAbility>
+            ),
+          },
+          ...[
+            { path: 'dashboard', element: <DashboardRoute /> },
+            { path: 'reports', element: <ReportsRoute /> },
+            { path: 'reports/overdue', element: <OverdueRoute /> },
+            { path: 'reports/transfers', element: <TransfersInFlightRoute /> },
+            { path: 'reports/jobs', element: <ReportJobsRoute /> },
+          ].map((r) => ({
+            ...r,
+            element: (
+              <RequireAbility action="read" subject="Report">
+                {r.element}
+              </RequireAbility>
+            ),
+          })),
+          {
+            path: 'shops/new',
+            element: (
+              <RequireAbility action="create" subject="Shop">
+                <NewShopRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'shops/:id',
+            element: (
+              <RequireAbility action="manage" subject="Shop">
+                <ShopRoute />
               </RequireAbility>
             ),
           },
@@ -89,6 +158,30 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="read" subject="Attachment">
                 <InstrumentPhotosRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'jobs/:jobId/pad-map',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadMapRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'stock',
+            element: (
+              <RequireAbility action="read" subject="Stock">
+                <StockRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'pad-rules',
+            element: (
+              <RequireAbility action="read" subject="PadMap">
+                <PadRulesRoute />
               </RequireAbility>
             ),
           },

@@ -37,7 +37,12 @@ export async function makeUser(networkId: string, roles: Array<{ shopId: string 
   return user;
 }
 
-let jobSeq = 1_000_000;
+/** The next job number of a network, as the app numbers jobs (max + 1), so the two never collide. */
+async function nextJobNumber(networkId: string): Promise<number> {
+  const last = (await Job.max('number', { where: { networkId } })) as number | null;
+  return (last ?? 0) + 1;
+}
+
 export async function makeInstrumentWithJob(
   networkId: string,
   shopId: string,
@@ -56,7 +61,7 @@ export async function makeInstrumentWithJob(
   const stage = over.stage ?? 'intake';
   const job = await Job.create({
     networkId,
-    number: jobSeq++,
+    number: await nextJobNumber(networkId),
     instrumentId: instrument.id,
     shopId,
     stage,

@@ -7,7 +7,18 @@ import type { Express } from 'express';
  * at /auth/callback. Returns the app's session cookie.
  */
 export async function signIn(app: Express, email: string): Promise<string> {
-  const start = await request(app).get('/auth/login').expect(302);
+  return (await signInFollowing(app, email)).cookie;
+}
+
+/**
+ * The same sign-in, starting from `/auth/login?returnTo=…`; also returns where the app sent the
+ * browser afterwards (the `returnTo`, or /no-access for an e-mail without a role).
+ */
+export async function signInFollowing(app: Express, email: string, returnTo?: string): Promise<{ cookie: string; location: string }> {
+  const start = await request(app)
+    .get('/auth/login')
+    .query(returnTo ? { returnTo } : {})
+    .expect(302);
   let appCookie = cookieHeader(start.headers['set-cookie']);
   const jar = new Map<string, string>(); // the provider's cookies
   let url = new URL(start.headers.location as string);
@@ -42,7 +53,7 @@ export async function signIn(app: Express, email: string): Promise<string> {
   const done = await request(app).get(callback.pathname + callback.search).set('Cookie', appCookie);
   if (done.status !== 302) throw new Error(`callback answered ${done.status}`);
   appCookie = cookieHeader(done.headers['set-cookie']) || appCookie;
-  return appCookie;
+  return { cookie: appCookie, location: done.headers.location as string };
 }
 
 function cookieHeader(setCookie: string[] | string | undefined): string {

@@ -4,7 +4,49 @@ import { config } from '../../config.js';
 import { actorOf, requireActor } from '../../lib/auth.js';
 import { beginSignIn, finishSignIn, signOutUrl } from '../../lib/oidc.js';
 import { logger } from '../../lib/logger.js';
-import { describeMe, resolveSignIn } from './service.js';
+import { notFound, unauthenticated } from '../../lib/errors.js';
+import {
+  auditLogQuerySchema,
+  invitationAcceptSchema,
+  invitationCreateSchema,
+  invitationTokenSchema,
+  membershipUpdateSchema,
+  peopleQuerySchema,
+  personUpdateSchema,
+  roleAssignmentSchema,
+} from '../../../shared/schemas/people.js';
+import {
+  assignRole,
+  changeMembership,
+  deactivatePerson,
+  describeMe,
+  getPerson,
+  listAuditLog,
+  listPeople,
+  reactivatePerson,
+  removeMembership,
+  resolveSignIn,
+  updatePerson,
+} from './service.js';
+import {
+  acceptInvitation,
+  createInvitation,
+  listInvitations,
+  previewInvitation,
+  resendInvitation,
+  revokeInvitation,
+} from './invitations.js';
+
+declare module 'express-session' {
+  interface SessionData {
+    /** The provider's display name of a signed-in e-mail without a role yet, for an invitation it accepts. */
+    noAccessName?: string;
+  }
+}
+
+/** Where an invitation link sends a person after sign-in, even before they hold any role. */
+const INVITATION_RETURN = /^\/invitations\/[A-Za-z0-9_-]+\/accept$/;
+const uuid = z.uuid();
 
 /** Only same-site paths may follow sign-in, never another origin. */
 const returnToSchema = z
@@ -46,9 +88,11 @@ authRouter.get('/auth/callback', async (req, res) => {
     req.session.user = who;
   } else {
     req.session.noAccessEmail = identity.email;
+    req.session.noAccessName = identity.name;
   }
   await save(req);
-  res.redirect(who ? pending.returnTo : '/no-access');
+  // someone accepting an invitation has no role yet: the invitation page finishes the job
+  res.redirect(who || INVITATION_RETURN.test(pending.returnTo) ? pending.returnTo : '/no-access');
 });
 
 authRouter.post('/auth/logout', async (req, res) => {
@@ -62,4 +106,96 @@ export const meRouter = Router();
 
 meRouter.get('/api/me', requireActor, async (req, res) => {
   res.json(await describeMe(actorOf(req)));
+});
+
+/** A uuid route parameter; anything else cannot name a record, so it is simply not found. */
+function idParam(value: string | string[] | undefined, what: string): string {
+  const parsed = uuid.safeParse(value);
+  if (!parsed.success) throw notFound(what);
+  return parsed.data;
+}
+
+export const peopleRouter = Router();
+
+peopleRouter.get('/api/people', requireActor, async (req, res) => {
+  res.json({ people: await listPeople(actorOf(req), peopleQuerySchema.parse(req.query)) });
+});
+
+peopleRouter.get('/api/people/:id', requireActor, async (req, res) => {
+  res.json({ person: await getPerson(actorOf(req), idParam(req.params.id, 'That person')) });
+});
+
+peopleRouter.patch('/api/people/:id', requireActor, async (req, res) => {
+  const id = idParam(req.params.id, 'That person');
+  res.json({ person: await updatePerson(actorOf(req), id, personUpdateSchema.parse(req.body)) });
+});
+
+peopleRouter.post('/api/people/:id/memberships', requireActor, async (req, res) => {
+  const id = idParam(req.params.id, 'That person');
+  res.json({ person: await assignRole(actorOf(req), id, roleAssignmentSchema.parse(req.body)) });
+});
+
+peopleRouter.post('/api/people/:id/deactivate', requireActor, async (req, res) => {
+  res.json(await deactivatePerson(actorOf(req), idParam(req.params.id, 'That person')));
+});
+
+peopleRouter.post('/api/people/:id/reactivate', requireActor, async (req, res) => {
+  res.json({ person: await reactivatePerson(actorOf(req), idParam(req.params.id, 'That person')) });
+});
+
+peopleRouter.patch('/api/memberships/:id', requireActor, async (req, res) => {
+  const id = idParam(req.params.id, 'That role');
+  res.json({ person: await changeMembership(actorOf(req), id, membershipUpdateSchema.parse(req.body)) });
+});
+
+peopleRouter.delete('/api/memberships/:id', requireActor, async (req, res) => {
+  res.json({ person: await removeMembership(actorOf(req), idParam(req.params.id, 'That role')) });
+});
+
+peopleRouter.get('/api/audit-log', requireActor, async (req, res) => {
+  res.json(await listAuditLog(actorOf(req), auditLogQuerySchema.parse(req.query)));
+});
+
+export const invitationsRouter = Router();
+
+invitationsRouter.get('/api/invitations', requireActor, async (req, res) => {
+  res.json({ invitations: await listInvitations(actorOf(req)) });
+});
+
+invitationsRouter.post('/api/invitations', requireActor, async (req, res) => {
+  res.status(201).json(await createInvitation(actorOf(req), invitationCreateSchema.parse(req.body)));
+});
+
+invitationsRouter.delete('/api/invitations/:id', requireActor, async (req, res) => {
+  res.json({ invitation: await revokeInvitation(actorOf(req), idParam(req.params.id, 'That invitation')) });
+});
+
+invitationsRouter.post('/api/invitations/:id/resend', requireActor, async (req, res) => {
+  res.json(await resendInvitation(actorOf(req), idParam(req.params.id, 'That invitation')));
+});
+
+// Public: the token in the link is the key. Shown before sign-in so the person knows what they accept.
+invitationsRouter.get('/api/invitations/preview/:token', async (req, res) => {
+  const token = invitationTokenSchema.safeParse(req.params.token);
+  if (!token.success) throw notFound('That invitation');
+  res.json({ invitation: await previewInvitation(token.data) });
+});
+
+/**
+ * Accepts with the e-mail the identity provider vouched for: a member's, or that of someone signed in
+ * without any role yet (`noAccessEmail`). On success the session becomes that network's member.
+ */
+invitationsRouter.post('/api/invitations/accept', async (req, res) => {
+  const { token } = invitationAcceptSchema.parse(req.body);
+  const email = req.actor?.email ?? req.session?.noAccessEmail;
+  if (!email) throw unauthenticated('Sign in with the invited e-mail address to accept.');
+  const name = req.actor?.name ?? req.session.noAccessName;
+  const who = await acceptInvitation({ email, name }, token);
+  // a new session id whenever the session gains rights
+  const idToken = req.session.idToken;
+  await regenerate(req);
+  req.session.user = { id: who.userId, networkId: who.networkId };
+  req.session.idToken = idToken;
+  await save(req);
+  res.json({ accepted: true });
 });

@@ -7,7 +7,7 @@ import {
   type NonAttribute,
 } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
-import { decimalColumn, idColumn, networkIdColumn, oneOf, refColumn } from '../../lib/columns.js';
+import { decimalColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
 
 export const PART_KINDS = ['pad', 'other'] as const;
 export type PartKind = (typeof PART_KINDS)[number];
@@ -110,3 +110,59 @@ const rel = { constraints: false } as const;
 Part.hasMany(StockLevel, { ...rel, as: 'stockLevels', foreignKey: 'partId', sourceKey: 'id' });
 StockLevel.belongsTo(Part, { ...rel, as: 'part', foreignKey: 'partId', targetKey: 'id' });
 StockReservation.belongsTo(Part, { ...rel, as: 'part', foreignKey: 'partId', targetKey: 'id' });
+
+export const PART_TRANSFER_STATES = ['requested', 'sent', 'received', 'cancelled'] as const;
+export type PartTransferState = (typeof PART_TRANSFER_STATES)[number];
+
+/** Parts one shop sends another on a relay run, usually because a pad map left the other short. */
+export class PartTransfer extends Model<InferAttributes<PartTransfer>, InferCreationAttributes<PartTransfer>> {
+  declare id: CreationOptional<string>;
+  declare networkId: string;
+  declare partId: string;
+  declare fromShopId: string;
+  declare toShopId: string;
+  declare jobId: CreationOptional<string | null>;
+  declare quantity: number;
+  declare state: CreationOptional<PartTransferState>;
+  declare relayRunId: CreationOptional<string | null>;
+  declare note: CreationOptional<string | null>;
+  declare requestedByUserId: string;
+  declare sentByUserId: CreationOptional<string | null>;
+  declare receivedByUserId: CreationOptional<string | null>;
+  declare cancelledByUserId: CreationOptional<string | null>;
+  declare requestedAt: CreationOptional<Date>;
+  declare sentAt: CreationOptional<Date | null>;
+  declare receivedAt: CreationOptional<Date | null>;
+  declare cancelledAt: CreationOptional<Date | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+
+  declare part?: NonAttribute<Part>;
+}
+
+PartTransfer.init(
+  {
+    id: idColumn(),
+    networkId: networkIdColumn(),
+    partId: refColumn(),
+    fromShopId: refColumn(),
+    toShopId: refColumn(),
+    jobId: optionalRefColumn(),
+    quantity: { type: DataTypes.INTEGER, allowNull: false, validate: { min: 1 } },
+    state: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'requested', validate: oneOf(PART_TRANSFER_STATES) },
+    relayRunId: optionalRefColumn(),
+    note: DataTypes.TEXT,
+    requestedByUserId: refColumn(),
+    sentByUserId: optionalRefColumn(),
+    receivedByUserId: optionalRefColumn(),
+    cancelledByUserId: optionalRefColumn(),
+    requestedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
+    sentAt: DataTypes.DATE,
+    receivedAt: DataTypes.DATE,
+    cancelledAt: DataTypes.DATE,
+    createdAt: DataTypes.DATE,
+    updatedAt: DataTypes.DATE,
+  },
+  { sequelize, modelName: 'PartTransfer', tableName: 'part_transfers', underscored: true },
+);
+PartTransfer.belongsTo(Part, { ...rel, as: 'part', foreignKey: 'partId', targetKey: 'id' });

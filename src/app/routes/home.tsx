@@ -1,4 +1,5 @@
 import { PageHeader } from '@/components/ui/page-header';
+import { ShopAbilities } from '@/features/shops/components/shop-abilities';
 import { ShopSummaryList } from '@/features/shops/components/shop-summary-list';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { useCurrentShop } from '../current-shop';
@@ -19,7 +20,10 @@ export function HomeRoute() {
           </>
         }
       />
-      <ShopSummaryList currentShopId={currentShop?.id} onSelectShop={me.shops.length > 1 ? setCurrentShop : undefined} />
+      <div className="flex flex-col gap-8">
+        {currentShop ? <ShopAbilities shopId={currentShop.id} shopName={currentShop.name} /> : null}
+        <ShopSummaryList currentShopId={currentShop?.id} onSelectShop={me.shops.length > 1 ? setCurrentShop : undefined} />
+      </div>
     </>
   );
 }

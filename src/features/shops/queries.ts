@@ -22,3 +22,92 @@ export function shopsSummaryQueryOptions() {
     select: (data) => data.shops,
   });
 }
+
+/** The bodies of the Shops API (server/modules/networks). */
+export interface ShopSkill {
+  skillId: string;
+  code: string;
+  name: string;
+  weeklyBenchHours: number;
+}
+
+export interface Shop {
+  id: string;
+  name: string;
+  code: string;
+  addressLine: string | null;
+  city: string | null;
+  region: string | null;
+  postalCode: string | null;
+  country: string;
+  latitude: number | null;
+  longitude: number | null;
+  timeZone: string;
+  openingDays: number[];
+  laborRateCents: number;
+  taxRateBasisPoints: number;
+  phone: string | null;
+  email: string | null;
+  active: boolean;
+  skills: ShopSkill[];
+}
+
+export interface RelayRun {
+  id: string;
+  fromShopId: string;
+  fromShopName: string | null;
+  toShopId: string;
+  toShopName: string | null;
+  weekdays: number[];
+  departureTime: string;
+  transitHours: number;
+  active: boolean;
+}
+
+export interface ShopDetail extends Shop {
+  technicians: Array<{
+    userId: string;
+    name: string;
+    email: string;
+    active: boolean;
+    skills: Array<{ skillId: string; name: string; weeklyHours: number }>;
+  }>;
+  relayRuns: RelayRun[];
+}
+
+export interface Skill {
+  id: string;
+  code: string;
+  name: string;
+}
+
+export const shopAdminKeys = {
+  list: () => [...shopKeys.all, 'list'] as const,
+  detail: (id: string) => [...shopKeys.all, 'detail', id] as const,
+  skills: () => [...shopKeys.all, 'skills'] as const,
+  relayRuns: () => [...shopKeys.all, 'relay-runs'] as const,
+};
+
+export function shopsQueryOptions() {
+  return queryOptions({
+    queryKey: shopAdminKeys.list(),
+    queryFn: ({ signal }) => api.get<{ shops: Shop[] }>('/api/shops', signal),
+    select: (data) => data.shops,
+  });
+}
+
+export function shopQueryOptions(id: string) {
+  return queryOptions({
+    queryKey: shopAdminKeys.detail(id),
+    queryFn: ({ signal }) => api.get<{ shop: ShopDetail }>(`/api/shops/${encodeURIComponent(id)}`, signal),
+    select: (data) => data.shop,
+  });
+}
+
+export function skillsQueryOptions() {
+  return queryOptions({
+    queryKey: shopAdminKeys.skills(),
+    queryFn: ({ signal }) => api.get<{ skills: Skill[] }>('/api/skills', signal),
+    select: (data) => data.skills,
+  });
+}

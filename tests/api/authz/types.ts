@@ -30,6 +30,10 @@ export interface World {
   cookies: Record<Role, string>;
   /** user ids of those people */
   users: Record<Role, string>;
+  /** e-mail addresses of those people */
+  emails: Record<Role, string>;
+  /** A fresh signed-in session of that role's person, for a cell whose route ends the session it uses. */
+  signInAs(role: Role): Promise<string>;
 }
 
 export interface BuiltRequest {
@@ -37,6 +41,8 @@ export interface BuiltRequest {
   path: string;
   body?: unknown;
   query?: Record<string, string>;
+  /** Sent instead of the world's cookie for `who` (e.g. a fresh session from `world.signInAs`). */
+  cookie?: string;
 }
 
 export interface RouteCase {

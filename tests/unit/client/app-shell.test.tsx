@@ -194,11 +194,11 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows the registry, intake, job screens, transfers, People, Shops and the service catalog in the navigation for an owner', async () => {
+  it('shows the dashboard, reports, registry, intake, job screens, transfers, People, Shops, the service catalog, stock and pad rules in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
     expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual([
-      'Home', 'Registry', 'Intake', 'Job board', 'My bench', 'Transfers', 'People', 'Shops', 'Service catalog',
+      'Home', 'Dashboard', 'Reports', 'Registry', 'Intake', 'Job board', 'My bench', 'Transfers', 'People', 'Shops', 'Service catalog', 'Stock', 'Pad rules',
     ]);
   });
 
@@ -210,12 +210,31 @@ describe('signed in (200 from /api/me)', () => {
     expect(screen.getByRole('heading', { name: 'Page not found' })).toBeInTheDocument();
   });
 
-  it('opens the People page for an owner with their roles', async () => {
-    renderApp('/people', ownerAnswers);
+  it('opens the People page for an owner with everyone’s roles per shop', async () => {
+    renderApp('/people', {
+      ...ownerAnswers,
+      'GET /api/invitations': { status: 200, body: { invitations: [] } },
+      'GET /api/people': {
+        status: 200,
+        body: {
+          people: [
+            {
+              id: 'user-2', name: 'Tamsin Oduya', email: 'tamsin@example.test', active: true, deactivatedAt: null, lastSignInAt: null,
+              createdAt: '2025-01-01T00:00:00Z',
+              memberships: [
+                { id: 'm1', shopId: harbourShop.id, shopName: harbourShop.name, role: 'technician' },
+                { id: 'm2', shopId: millShop.id, shopName: millShop.name, role: 'front_desk' },
+              ],
+            },
+          ],
+        },
+      },
+    });
     expect(await screen.findByRole('heading', { level: 1, name: 'People' })).toBeInTheDocument();
-    const yourRoles = screen.getByRole('region', { name: 'Your roles' });
-    expect(within(yourRoles).getByText('Every shop')).toBeInTheDocument();
-    expect(within(yourRoles).getByText('Owner')).toBeInTheDocument();
+    const person = await screen.findByRole('link', { name: /Tamsin Oduya/ });
+    expect(within(person).getByText(`Technician at ${harbourShop.name}`)).toBeInTheDocument();
+    expect(within(person).getByText(`Front desk at ${millShop.name}`)).toBeInTheDocument();
+    expect(screen.getByRole('link', { name: 'Invite someone' })).toBeInTheDocument();
   });
 
   it('opens the Shops page for an owner with a row per shop', async () => {

@@ -1,4 +1,5 @@
 import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
 import { EmptyState } from '@/components/ui/empty-state';
 import { ErrorState } from '@/components/ui/error-state';
 import { Spinner } from '@/components/ui/spinner';
@@ -7,7 +8,7 @@ import { shopsSummaryQueryOptions } from '../queries';
 import { stageBreakdown } from '../stages';
 
 /** Every shop of the network side by side: where it is, its clock, and how loaded its board is. */
-export function ShopTable() {
+export function ShopTable({ hrefFor }: { hrefFor?: (shopId: string) => string } = {}) {
   const summary = useQuery(shopsSummaryQueryOptions());
 
   if (summary.isPending) {
@@ -52,7 +53,15 @@ export function ShopTable() {
         <tbody className="divide-y divide-paper-200">
           {summary.data.map((shop) => (
             <tr key={shop.id}>
-              <th scope="row" className="px-4 py-3 font-semibold text-ink-950">{shop.name}</th>
+              <th scope="row" className="px-4 py-3 font-semibold text-ink-950">
+                {hrefFor ? (
+                  <Link to={hrefFor(shop.id)} className="text-accent-700 underline underline-offset-2">
+                    {shop.name}
+                  </Link>
+                ) : (
+                  shop.name
+                )}
+              </th>
               <td className="px-4 py-3 text-ink-800">{shop.city}</td>
               <td className="px-4 py-3 text-ink-800">{formatTimeZone(shop.timeZone)}</td>
               <td className="px-4 py-3 text-right font-semibold tabular-nums text-ink-950">{shop.openJobs}</td>

@@ -1,0 +1,40 @@
+import { tz } from '@date-fns/tz';
+import { addDays, differenceInCalendarDays, format, getISODay, startOfDay } from 'date-fns';
+import type { IsoWeekday } from '../domain.js';
+
+/**
+ * Business days, as Benchrelay counts them for turnaround: the shop's opening days that come AFTER the
+ * local calendar date of `start`, up to and including the local calendar date of `end`, both dates
+ * taken in the shop's own time zone. So a job taken in on Monday and ready on Tuesday took 1 business
+ * day, ready the same day took 0, and one taken in on a Saturday (shop closed) and ready on Monday took 1.
+ * Counting whole local dates (not hours) is what a counter clerk means by "three working days", and it
+ * keeps the figure the same whether the bench finished at 9:00 or 17:00.
+ *
+ * The SQL in server/modules/reports/service.ts counts the same thing (generate_series over local dates,
+ * `isodow = any(opening_days)`); tests/api/reports-turnaround.test.ts holds the two against each other.
+ */
+export function businessDaysBetween(start: Date, end: Date, timeZone: string, openingDays: readonly number[]): number {
+  const inZone = tz(timeZone);
+  const calendarDays = differenceInCalendarDays(end, start, { in: inZone });
+  if (calendarDays <= 0) return 0;
+  const open = new Set(openingDays.filter((d) => d >= 1 && d <= 7));
+  if (open.size === 0) return 0;
+  // whole weeks contain every opening day once; only the remainder needs walking
+  const fullWeeks = Math.floor(calendarDays / 7);
+  let count = fullWeeks * open.size;
+  const first = startOfDay(start, { in: inZone });
+  for (let i = fullWeeks * 7 + 1; i <= calendarDays; i++) {
+    if (open.has(getISODay(addDays(first, i, { in: inZone }), { in: inZone }))) count++;
+  }
+  return count;
+}
+
+/** Calendar date ('YYYY-MM-DD') of an instant as the shop's wall calendar shows it. */
+export function localDateIn(at: Date, timeZone: string): string {
+  return format(at, 'yyyy-MM-dd', { in: tz(timeZone) });
+}
+
+/** Whether the shop opens on the local date of this instant. */
+export function isOpeningDay(at: Date, timeZone: string, openingDays: readonly IsoWeekday[] | readonly number[]): boolean {
+  return (openingDays as readonly number[]).includes(getISODay(at, { in: tz(timeZone) }));
+}

@@ -1,0 +1,49 @@
+import { estimateTotals } from '../jobs/estimate.js';
+
+/**
+ * Invoice arithmetic for the accounting CSV. The rule is the estimate's (shared/jobs/estimate.ts), so
+ * an invoice always agrees with the estimate the customer approved: each line rounded once to whole
+ * cents, half away from zero (hours × rate, quantity × unit price); subtotal = sum of the rounded
+ * lines; tax = subtotal × the shop's basis points ÷ 10 000, rounded half away from zero, once;
+ * total = subtotal + tax.
+ */
+
+export interface InvoiceLineInput {
+  kind: 'labor' | 'part';
+  /** NUMERIC values arrive from pg as strings */
+  hours?: number | string | null;
+  rateCents?: number | null;
+  quantity?: number | string | null;
+  unitPriceCents?: number | null;
+}
+
+export interface InvoiceTotals {
+  lineTotalsCents: number[];
+  subtotalCents: number;
+  taxCents: number;
+  totalCents: number;
+}
+
+export function invoiceTotals(lines: InvoiceLineInput[], taxRateBasisPoints: number): InvoiceTotals {
+  const t = estimateTotals(
+    lines.map((l) =>
+      l.kind === 'labor'
+        ? { kind: 'labor' as const, hours: Number(l.hours ?? 0), rateCents: l.rateCents ?? 0 }
+        : { kind: 'part' as const, quantity: Number(l.quantity ?? 0), unitPriceCents: l.unitPriceCents ?? 0 },
+    ),
+    taxRateBasisPoints,
+  );
+  return { lineTotalsCents: t.lineCents, subtotalCents: t.subtotalCents, taxCents: t.taxCents, totalCents: t.totalCents };
+}
+
+/** Cents as a plain decimal amount for accounting imports: 123456 → "1234.56", -5 → "-0.05". */
+export function centsToDecimal(cents: number): string {
+  const sign = cents < 0 ? '-' : '';
+  const abs = Math.abs(cents);
+  return `${sign}${Math.floor(abs / 100)}.${String(abs % 100).padStart(2, '0')}`;
+}
+
+/** Basis points as a percentage string: 1025 → "10.25", 1000 → "10", 0 → "0". */
+export function basisPointsToPercent(bp: number): string {
+  return centsToDecimal(bp).replace(/\.00$/, '').replace(/(\.\d)0$/, '$1');
+}

@@ -1,0 +1,56 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { RelayRunInput, RelayRunUpdate, ShopInput, ShopSkillsInput, SkillInput, TechnicianSkillsInput } from '@shared/schemas/shops';
+import { api } from '@/lib/api-client';
+import { shopKeys, type RelayRun, type ShopDetail, type Skill } from './queries';
+
+/** Any change to shops can show on every shop view (names in switchers, summaries, relay runs). */
+function useInvalidateShops() {
+  const client = useQueryClient();
+  return () => client.invalidateQueries({ queryKey: shopKeys.all });
+}
+
+export function useCreateShop() {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (input: ShopInput) => api.post<{ shop: ShopDetail }>('/api/shops', input), onSuccess: invalidate });
+}
+
+export function useUpdateShop(id: string) {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (input: Partial<ShopInput>) => api.patch<{ shop: ShopDetail }>(`/api/shops/${id}`, input), onSuccess: invalidate });
+}
+
+export function useSetShopSkills(id: string) {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (input: ShopSkillsInput) => api.put<{ shop: ShopDetail }>(`/api/shops/${id}/skills`, input), onSuccess: invalidate });
+}
+
+export function useSetTechnicianSkills(id: string) {
+  const invalidate = useInvalidateShops();
+  return useMutation({
+    mutationFn: (input: TechnicianSkillsInput) => api.put<{ shop: ShopDetail }>(`/api/shops/${id}/technician-skills`, input),
+    onSuccess: invalidate,
+  });
+}
+
+export function useCreateSkill() {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (input: SkillInput) => api.post<{ skill: Skill }>('/api/skills', input), onSuccess: invalidate });
+}
+
+export function useCreateRelayRun() {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (input: RelayRunInput) => api.post<{ relayRun: RelayRun }>('/api/relay-runs', input), onSuccess: invalidate });
+}
+
+export function useUpdateRelayRun() {
+  const invalidate = useInvalidateShops();
+  return useMutation({
+    mutationFn: ({ id, ...input }: RelayRunUpdate & { id: string }) => api.patch<{ relayRun: RelayRun }>(`/api/relay-runs/${id}`, input),
+    onSuccess: invalidate,
+  });
+}
+
+export function useRemoveRelayRun() {
+  const invalidate = useInvalidateShops();
+  return useMutation({ mutationFn: (id: string) => api.delete<{ removed: boolean }>(`/api/relay-runs/${id}`), onSuccess: invalidate });
+}

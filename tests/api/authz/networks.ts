@@ -1,0 +1,94 @@
+import { RelayRun } from '../../../server/lib/models.js';
+import { uniq } from '../../helpers/factories.js';
+import { SCOPES, type RouteCase, type Scope } from './types.js';
+
+/** Shops, skills and relay runs (server/modules/networks). */
+const signedIn = { owner: SCOPES, regional_manager: SCOPES, front_desk: SCOPES, technician: SCOPES, auditor: SCOPES };
+/** Setting up shops is the owner's alone; another network's records are not found. */
+const ownerInNetwork = { owner: ['own', 'otherShop'] as Scope[] };
+
+let codes = 0;
+const freshCode = () => `M${String(++codes).padStart(3, '0')}${Math.floor(Math.random() * 1000)}`.slice(0, 8);
+
+export const cases: RouteCase[] = [
+  // lists are filtered to what each person may read (tests/api/networks/*.test.ts check the rows)
+  { route: 'GET /api/shops/summary', scopeless: true, allow: signedIn, build: () => ({ path: '/api/shops/summary' }) },
+  { route: 'GET /api/shops', scopeless: true, allow: signedIn, build: () => ({ path: '/api/shops' }) },
+  {
+    route: 'POST /api/shops',
+    scopeless: true,
+    allow: { owner: SCOPES },
+    build: () => ({
+      path: '/api/shops',
+      body: { name: `Matrix bench ${uniq()}`, code: freshCode(), timeZone: 'America/Denver', openingDays: [1, 2, 3], laborRateCents: 8000 },
+    }),
+  },
+  {
+    // anyone with a role at the shop reads it; regional managers read every shop of the network
+    route: 'GET /api/shops/:id',
+    allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own'], technician: ['own'], auditor: ['own'] },
+    build: ({ world, scope }) => ({ path: `/api/shops/${world.ids[scope].shop}` }),
+  },
+  {
+    route: 'PATCH /api/shops/:id',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({ path: `/api/shops/${world.ids[scope].shop}`, body: { phone: `+1 555 01${Math.floor(Math.random() * 90 + 10)}` } }),
+  },
+  {
+    route: 'PUT /api/shops/:id/skills',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({
+      path: `/api/shops/${world.ids[scope].shop}/skills`,
+      body: { skills: [{ skillId: world.ids[scope].skill, weeklyBenchHours: 30 }] },
+    }),
+  },
+  {
+    route: 'PUT /api/shops/:id/technician-skills',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({
+      path: `/api/shops/${world.ids[scope].shop}/technician-skills`,
+      body: { userId: world.ids[scope].user, skills: [{ skillId: world.ids[scope].skill, weeklyHours: 12 }] },
+    }),
+  },
+
+  { route: 'GET /api/skills', scopeless: true, allow: signedIn, build: () => ({ path: '/api/skills' }) },
+  {
+    route: 'POST /api/skills',
+    scopeless: true,
+    allow: { owner: SCOPES },
+    build: () => ({ path: '/api/skills', body: { code: `skill_${uniq()}`, name: 'Vintage flutes' } }),
+  },
+  {
+    route: 'PATCH /api/skills/:id',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({ path: `/api/skills/${world.ids[scope].skill}`, body: { name: 'Low saxophones' } }),
+  },
+
+  { route: 'GET /api/relay-runs', scopeless: true, allow: signedIn, build: () => ({ path: '/api/relay-runs' }) },
+  {
+    // the run's shops are the scope's: another network's shops are not found
+    route: 'POST /api/relay-runs',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({
+      path: '/api/relay-runs',
+      body: { fromShopId: world.ids[scope].shop, toShopId: world.ids[scope].destinationShop, weekdays: [5], departureTime: '16:00', transitHours: 8 },
+    }),
+  },
+  {
+    route: 'PATCH /api/relay-runs/:id',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({ path: `/api/relay-runs/${world.ids[scope].relayRun}`, body: { transitHours: 5 } }),
+  },
+  {
+    route: 'DELETE /api/relay-runs/:id',
+    allow: ownerInNetwork,
+    build: async ({ world, scope }) => {
+      const source = await RelayRun.findOne({ where: { id: world.ids[scope].relayRun } });
+      const run = await RelayRun.create({
+        networkId: source!.networkId, fromShopId: source!.fromShopId, toShopId: source!.toShopId,
+        weekdays: [1], departureTime: '09:00:00', transitHours: 4,
+      });
+      return { path: `/api/relay-runs/${run.id}` };
+    },
+  },
+];

@@ -1,0 +1,44 @@
+import { render } from '@testing-library/react';
+import { createMemoryRouter, RouterProvider } from 'react-router-dom';
+import { vi } from 'vitest';
+import { AppProviders } from '@/app/providers';
+import { routes } from '@/app/router';
+import { createQueryClient } from '@/lib/query-client';
+
+/**
+ * Mounts the whole client at an address with a fake fetch answering per 'METHOD /path'. For client
+ * tests about what the screens show and send; the server side is tested against the real app.
+ */
+export type Answer = { status: number; body?: unknown };
+export type Answers = Record<string, Answer | ((init: { body: unknown }) => Answer | Promise<Answer>)>;
+
+export interface SentRequest {
+  method: string;
+  path: string;
+  search: string;
+  body: unknown;
+}
+
+export function renderApp(path: string, answers: Answers) {
+  const sent: SentRequest[] = [];
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
+      const url = new URL(String(input), 'http://localhost');
+      const method = (init.method ?? 'GET').toUpperCase();
+      const body = typeof init.body === 'string' ? JSON.parse(init.body) : undefined;
+      sent.push({ method, path: url.pathname, search: url.search, body });
+      const entry = answers[`${method} ${url.pathname}`];
+      const answer = typeof entry === 'function' ? await entry({ body }) : entry;
+      const { status, body: out } = answer ?? { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } };
+      return new Response(out === undefined ? null : JSON.stringify(out), { status, headers: { 'Content-Type': 'application/json' } });
+    }),
+  );
+  const router = createMemoryRouter(routes, { initialEntries: [path] });
+  render(
+    <AppProviders queryClient={createQueryClient()}>
+      <RouterProvider router={router} />
+    </AppProviders>,
+  );
+  return { router, sent };
+}

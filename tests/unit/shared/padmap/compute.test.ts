@@ -1,0 +1,177 @@
+import { describe, expect, it } from 'vitest';
+import { chooseStem, computeKey, computePadMap, laborEstimate, type KeyMeasurement } from '../../../../shared/padmap/compute.js';
+import { DEFAULT_PAD_RULES, type PadRules } from '../../../../shared/padmap/rules.js';
+import { halfMillimetreCatalog } from './fixtures.js';
+
+const catalog = halfMillimetreCatalog();
+const rules: PadRules = { ...DEFAULT_PAD_RULES };
+const key = (over: Partial<KeyMeasurement> = {}): KeyMeasurement => ({
+  keyId: 'low_c', padKind: 'self_leveling', floor: 'flat', cupDiameterMm: 30.5, cupDepthMm: 4, rimDiameterMm: 28, ...over,
+});
+const codes = (m: KeyMeasurement, r: PadRules = rules) => computeKey(m, catalog, r).findings.map((f) => f.code);
+
+/*
+ * Hand-worked examples. The 0.15 mm clearance, the 0.5/1.0/1.5 mm stems and the 0.5 labor factor
+ * are common practice; the 0.5 mm rim overlap and 0.5 mm protrusion minimums are from memory.
+ */
+describe('self-leveling pad diameter (common practice: 0.15 mm clearance per side)', () => {
+  it('a 30.5 mm cup gets a 30.0 mm pad from a 0.5 mm-step catalog', () => {
+    const r = computeKey(key({ cupDiameterMm: 30.5 }), catalog, rules);
+    expect(r.padDiameterMm).toBe(30);
+    expect(r.radialClearanceMm).toBe(0.25);
+  });
+
+  it('a 29.3 mm cup gets 29.0 mm: exactly 0.15 mm per side is enough', () => {
+    const r = computeKey(key({ cupDiameterMm: 29.3 }), catalog, rules);
+    expect(r.padDiameterMm).toBe(29);
+    expect(r.radialClearanceMm).toBe(0.15);
+  });
+
+  it('a 29.29 mm cup drops to 28.5 mm, since 29.0 would leave 0.145 mm', () => {
+    expect(computeKey(key({ cupDiameterMm: 29.29 }), catalog, rules).padDiameterMm).toBe(28.5);
+  });
+
+  it('a cup too small for the smallest pad is an error by the cup diameter', () => {
+    const r = computeKey(key({ cupDiameterMm: 6.2, rimDiameterMm: null }), catalog, rules);
+    expect(r.padDiameterMm).toBeNull();
+    expect(r.status).toBe('error');
+    expect(r.findings).toEqual([expect.objectContaining({ code: 'no_pad_fits', severity: 'error', field: 'cupDiameter' })]);
+  });
+
+  it('a larger owner minimum clearance moves to the next size down', () => {
+    expect(computeKey(key({ cupDiameterMm: 30.5 }), catalog, { ...rules, selfLevelingMinClearanceMm: 0.3 }).padDiameterMm).toBe(29.5);
+  });
+});
+
+describe('glued pad diameter (snug; owner offset −0.5 … +0.5 mm, common practice differs)', () => {
+  const glued = (cup: number, offset: number) =>
+    computeKey(key({ padKind: 'glued', cupDiameterMm: cup, rimDiameterMm: null }), catalog, { ...rules, gluedOffsetMm: offset });
+  it('by default takes the largest catalog pad not over the cup', () => {
+    expect(glued(30.5, 0).padDiameterMm).toBe(30.5);
+    expect(glued(30.3, 0).padDiameterMm).toBe(30);
+  });
+  it('follows the offset: next size down, or half a millimetre over to press in', () => {
+    expect(glued(30.5, -0.5).padDiameterMm).toBe(30);
+    expect(glued(30.5, 0.5).padDiameterMm).toBe(31);
+    expect(glued(30.3, 0.25).padDiameterMm).toBe(30.5);
+    expect(glued(30.5, 0.5).radialClearanceMm).toBe(-0.25);
+  });
+  it('glued pads get no stem height', () => {
+    const r = glued(30.5, 0);
+    expect(r.stemHeightMm).toBeNull();
+    expect(r.protrusionMm).toBeNull();
+  });
+});
+
+describe('seal over the tone-hole rim (from memory: at least 0.5 mm per side)', () => {
+  it('no finding when the overlap reaches the minimum exactly', () => {
+    const r = computeKey(key({ rimDiameterMm: 29 }), catalog, rules); // pad 30.0 → 0.5 per side
+    expect(r.rimOverlapMm).toBe(0.5);
+    expect(r.findings).toEqual([]);
+    expect(r.status).toBe('ok');
+  });
+  it('warns when the pad overlaps the rim by less than the minimum', () => {
+    const r = computeKey(key({ rimDiameterMm: 29.5 }), catalog, rules);
+    expect(r.rimOverlapMm).toBe(0.25);
+    expect(r.status).toBe('warning');
+    expect(r.findings[0]).toMatchObject({ code: 'rim_overlap_small', severity: 'warning', field: 'rimDiameter' });
+    expect(r.findings[0].message).toContain('0.25 mm');
+  });
+  it('flags an error when the pad does not cover the tone hole', () => {
+    expect(codes(key({ cupDiameterMm: 30.5, rimDiameterMm: 30.0 }))).toEqual(['rim_not_covered']);
+    const r = computeKey(key({ cupDiameterMm: 31, rimDiameterMm: 30.8 }), catalog, rules); // pad 30.5
+    expect(r.status).toBe('error');
+    expect(r.rimOverlapMm).toBe(-0.15);
+  });
+  it('a rim not smaller than the cup is a reading to check', () => {
+    expect(codes(key({ cupDiameterMm: 30.5, rimDiameterMm: 31 }))).toEqual(['rim_wider_than_cup', 'rim_not_covered']);
+  });
+  it('an unmeasured rim is noted, not warned', () => {
+    const r = computeKey(key({ rimDiameterMm: null }), catalog, rules);
+    expect(r.findings.map((f) => [f.code, f.severity])).toEqual([['rim_not_measured', 'info']]);
+    expect(r.status).toBe('ok');
+  });
+});
+
+describe('stem height (common practice: 0.5, 1.0, 1.5 mm; from memory: face 0.5 mm above the rim)', () => {
+  // pad 30.0 mm × 3.6 mm; protrusion = stem + 3.6 − depth
+  it.each([
+    [3.0, 0.5, 1.1],
+    [3.5, 0.5, 0.6],
+    [4.0, 1.0, 0.6],
+    [4.2, 1.5, 0.9],
+  ])('a %f mm deep cup takes the %f mm stem (pad face %f mm above the rim)', (depth, stem, protrusion) => {
+    const r = computeKey(key({ cupDepthMm: depth }), catalog, rules);
+    expect(r.stemHeightMm).toBe(stem);
+    expect(r.protrusionMm).toBe(protrusion);
+    expect(r.findings).toEqual([]);
+  });
+
+  it('deeper cups get taller stems', () => {
+    const stems = [3.0, 3.5, 3.8, 4.0, 4.1, 4.15, 4.6].map((d) => computeKey(key({ cupDepthMm: d }), catalog, rules).stemHeightMm);
+    expect(stems).toEqual([0.5, 0.5, 1.0, 1.0, 1.0, 1.5, 1.5]);
+  });
+
+  it('warns when even the tallest stem is not enough', () => {
+    const r = computeKey(key({ cupDepthMm: 4.7 }), catalog, rules);
+    expect(r.stemHeightMm).toBe(1.5);
+    expect(r.protrusionMm).toBe(0.4);
+    expect(r.findings).toEqual([expect.objectContaining({ code: 'stem_too_short', severity: 'warning', field: 'cupDepth' })]);
+  });
+
+  it('a sunken floor takes one step taller', () => {
+    expect(computeKey(key({ cupDepthMm: 3.5, floor: 'sunken' }), catalog, rules).stemHeightMm).toBe(1.0);
+    expect(computeKey(key({ cupDepthMm: 4.0, floor: 'sunken' }), catalog, rules).stemHeightMm).toBe(1.5);
+    const past = computeKey(key({ cupDepthMm: 4.5, floor: 'sunken' }), catalog, rules);
+    expect(past.stemHeightMm).toBe(1.5);
+    expect(past.findings.map((f) => f.code)).toEqual(['stem_too_short']);
+    expect(past.findings[0].message).toMatch(/sunken floor/);
+  });
+
+  it('asks for the depth when it is missing', () => {
+    expect(codes(key({ cupDepthMm: null }))).toEqual(['depth_missing']);
+  });
+
+  it('says so when the catalog lists no thickness', () => {
+    const noThickness = { ...catalog, self_leveling: catalog.self_leveling.map((p) => ({ ...p, thicknessMm: null })) };
+    expect(computeKey(key(), noThickness, rules).findings.map((f) => f.code)).toEqual(['thickness_unknown']);
+  });
+
+  it('chooseStem reads the owner’s stem list in any order', () => {
+    expect(chooseStem(4, 3.6, 'flat', { ...rules, stemHeightsMm: [2, 0.8] })).toEqual({ heightMm: 2, enough: true });
+  });
+});
+
+describe('the whole instrument', () => {
+  const entries: KeyMeasurement[] = [
+    key({ keyId: 'low_bb', cupDiameterMm: 45.8, cupDepthMm: 4.5, rimDiameterMm: 43 }),
+    key({ keyId: 'low_b', cupDiameterMm: 45.9, cupDepthMm: 4.5, rimDiameterMm: 43 }),
+    key({ keyId: 'low_c', cupDiameterMm: 30.5, cupDepthMm: 3.5 }),
+    key({ keyId: 'palm_d', padKind: 'glued', cupDiameterMm: 10.2, cupDepthMm: 2, rimDiameterMm: 8 }),
+    key({ keyId: 'octave_neck', cupDiameterMm: null, cupDepthMm: null, rimDiameterMm: null }),
+  ];
+
+  it('lists the pads by kind, size and thickness, and the stems by height', () => {
+    const result = computePadMap({ entries, catalog, rules, repadHours: 6 });
+    expect(result.parts.map((p) => [p.padKind, p.diameterMm, p.thicknessMm, p.quantity, p.keyIds])).toEqual([
+      ['self_leveling', 30, 3.6, 1, ['low_c']],
+      ['self_leveling', 45.5, 3.6, 2, ['low_bb', 'low_b']],
+      ['glued', 10, 4, 1, ['palm_d']],
+    ]);
+    expect(result.parts[0]).toMatchObject({ sku: 'PAD-30.0', partId: 'part-3.6-30', unitPriceCents: 300 });
+    expect(result.stems).toEqual([{ heightMm: 0.5, quantity: 1 }, { heightMm: 1.5, quantity: 2 }]);
+    expect(result.keys[4].status).toBe('empty');
+    expect(result.counts).toEqual({ measured: 4, padsChosen: 4, errors: 0, warnings: 0 });
+  });
+
+  it('scales the catalog hours by the self-leveling factor (common practice: 0.5)', () => {
+    const result = computePadMap({ entries, catalog, rules, repadHours: 6 });
+    // 3 self-leveling at half time and 1 glued at full time: 6 × (1 + 3 × 0.5) / 4 = 3.75
+    expect(result.labor).toEqual({ standardHours: 6, hours: 3.75, factor: 0.5, selfLevelingPads: 3, gluedPads: 1 });
+    const allSelfLeveling = entries.filter((e) => e.padKind === 'self_leveling').map((e) => computeKey(e, catalog, rules));
+    expect(laborEstimate(allSelfLeveling, 6, rules)?.hours).toBe(3);
+    expect(laborEstimate(allSelfLeveling, 6, { ...rules, selfLevelingLaborFactor: 0.8 })?.hours).toBe(4.8);
+    expect(laborEstimate([], 6, rules)?.hours).toBe(6);
+    expect(computePadMap({ entries, catalog, rules }).labor).toBeNull();
+  });
+});

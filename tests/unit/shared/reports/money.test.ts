@@ -1,0 +1,43 @@
+import { describe, expect, it } from 'vitest';
+import { basisPointsToPercent, centsToDecimal, invoiceTotals } from '../../../../shared/reports/money.js';
+
+describe('invoice arithmetic in integer cents (the estimate’s rule)', () => {
+  it('rounds each line once, half away from zero; NUMERIC strings from pg are fine', () => {
+    const t = invoiceTotals(
+      [
+        { kind: 'labor', hours: '1.25', rateCents: 9250 }, // 11 562.5 → 11 563
+        { kind: 'part', quantity: '0.50', unitPriceCents: 125 }, // 62.5 → 63
+        { kind: 'part', quantity: 1, unitPriceCents: 719 },
+      ],
+      1000,
+    );
+    // subtotal 12 345; 10 % tax = 1 234.5 → 1 235; total 13 580
+    expect(t).toEqual({ lineTotalsCents: [11563, 63, 719], subtotalCents: 12345, taxCents: 1235, totalCents: 13580 });
+  });
+
+  it('rounds the tax once on the subtotal, not per line', () => {
+    // three lines of 5 ¢ at 10 %: per line it would be 3 × round(0.5) = 3 ¢; on the subtotal round(1.5) = 2 ¢
+    const t = invoiceTotals([1, 2, 3].map(() => ({ kind: 'part' as const, quantity: 1, unitPriceCents: 5 })), 1000);
+    expect(t.taxCents).toBe(2);
+    expect(t.totalCents).toBe(17);
+  });
+
+  it('0.29 h is exact (29 hundredths), not 28.999… in binary floating point', () => {
+    expect(invoiceTotals([{ kind: 'labor', hours: 0.29, rateCents: 100 }], 0).lineTotalsCents).toEqual([29]);
+  });
+
+  it('an invoice without lines is zero', () => {
+    expect(invoiceTotals([], 1025)).toEqual({ lineTotalsCents: [], subtotalCents: 0, taxCents: 0, totalCents: 0 });
+  });
+
+  it('formats cents and rates for accounting imports', () => {
+    expect(centsToDecimal(13580)).toBe('135.80');
+    expect(centsToDecimal(5)).toBe('0.05');
+    expect(centsToDecimal(-5)).toBe('-0.05');
+    expect(centsToDecimal(0)).toBe('0.00');
+    expect(basisPointsToPercent(1025)).toBe('10.25');
+    expect(basisPointsToPercent(1000)).toBe('10');
+    expect(basisPointsToPercent(1050)).toBe('10.5');
+    expect(basisPointsToPercent(0)).toBe('0');
+  });
+});
