@@ -1,13 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Worker } from 'bullmq';
-import { Instrument, Job, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
+import { HistoryEvent, Instrument, Job, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { startWorker } from '../../workers/processors.js';
 import { launchBrowser, signInInBrowser, startAppServer } from '../helpers/browser.js';
 import { closeServerResources } from '../helpers/close.js';
 import { uniq } from '../helpers/factories.js';
+import { waitForIdleQueue } from '../helpers/transfers.js';
 
 /**
  * The regional manager requests a transfer of a baritone saxophone from Seattle, approves it from the
@@ -28,7 +29,7 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     for (const s of await Shop.findAll({ where: { networkId } })) shops[s.code] = s;
     const lowSax = (await Skill.findOne({ where: { networkId, code: 'low_sax' } }))!;
     // a fresh baritone at Seattle, so the test owns its rows
-    serial = `AB-${uniq().slice(0, 6).toUpperCase()} 9`;
+    serial = `AB-9${uniq().slice(0, 5).toUpperCase()} 9`;
     const manager = (await User.findOne({ where: { networkId, email: demoPeople[1].email } }))!;
     const instrument = await Instrument.create({
       networkId, family: 'baritone_saxophone', maker: 'Aldmoor', model: 'BS-900', serial, ownerKind: 'rental_fleet', currentShopId: shops.SEA.id,
@@ -39,8 +40,14 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
       networkId, number, instrumentId: instrument.id, shopId: shops.SEA.id, stage: 'assessed', openedByUserId: manager.id,
       requiredSkillId: lowSax.id, estimatedHours: 10, complaint: 'Low B-flat pad leaks; bow guard rattles.',
     });
+    // as the front desk's intake writes it, so the instrument's timeline starts where a real one does
+    await HistoryEvent.bulkCreate([
+      { networkId, instrumentId: instrument.id, jobId: job.id, shopId: shops.SEA.id, userId: manager.id, kind: 'intake', summary: `Checked in at Seattle: ${job.complaint}` },
+      { networkId, instrumentId: instrument.id, jobId: job.id, shopId: shops.SEA.id, userId: manager.id, kind: 'job_opened', summary: `Job ${number} opened at Seattle` },
+    ]);
     jobNumber = job.number;
     worker = startWorker(4);
+    await waitForIdleQueue();
     app = await startAppServer();
     browser = await launchBrowser();
   });

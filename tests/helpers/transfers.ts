@@ -11,6 +11,7 @@ import {
   Transfer,
 } from '../../server/lib/models.js';
 import { listCaughtMail, type CaughtMail } from '../../server/lib/mail.js';
+import { appQueue } from '../../server/lib/queue.js';
 import type { InstrumentFamily, JobStage, Role } from '../../shared/domain.js';
 import { makeInstrumentWithJob, makeNetwork, makeUser, uniq } from './factories.js';
 
@@ -69,7 +70,7 @@ export async function makeTransferJob(
 }
 
 /** Polls until `check` returns a truthy value (the worker runs on its own schedule). */
-export async function waitFor<T>(check: () => Promise<T | null | undefined | false>, what: string, timeoutMs = 15_000): Promise<T> {
+export async function waitFor<T>(check: () => Promise<T | null | undefined | false>, what: string, timeoutMs = 30_000): Promise<T> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const value = await check();
@@ -77,6 +78,22 @@ export async function waitFor<T>(check: () => Promise<T | null | undefined | fal
     if (Date.now() > deadline) throw new Error(`Timed out after ${timeoutMs} ms waiting for ${what}`);
     await new Promise((r) => setTimeout(r, 100));
   }
+}
+
+/**
+ * Waits until the app queue has nothing waiting or running. Test files run one after another on one
+ * queue, and earlier files leave jobs behind (steps of the authorization matrix, e-mails, thumbnails);
+ * a running worker works through them first, so a test that times its own steps waits for that.
+ */
+export function waitForIdleQueue(timeoutMs = 110_000) {
+  return waitFor(
+    async () => {
+      const counts = await appQueue().getJobCounts('waiting', 'active', 'prioritized', 'waiting-children');
+      return Object.values(counts).every((n) => n === 0);
+    },
+    'the queue to be idle',
+    timeoutMs,
+  );
 }
 
 export function waitForState(networkId: string, transferId: string, state: string, timeoutMs?: number) {
@@ -116,7 +133,7 @@ export async function mailFor(email: string, jobNumber: number): Promise<CaughtM
   return all.filter((m) => m.to.includes(email) && m.subject.includes(`(job ${jobNumber})`)).reverse();
 }
 
-export async function waitForMailCount(email: string, jobNumber: number, count: number, timeoutMs = 15_000) {
+export async function waitForMailCount(email: string, jobNumber: number, count: number, timeoutMs = 30_000) {
   return waitFor(
     async () => {
       const mails = await mailFor(email, jobNumber);

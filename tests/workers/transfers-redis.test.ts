@@ -79,7 +79,7 @@ describe('transfer lifecycle on the Redis queue backend, worker in its own proce
     await closeServerResources();
   });
 
-  it('runs requested → received with the worker on Redis', async () => {
+  it('runs requested → received with the worker on Redis', { timeout: 120_000 }, async () => {
     expect(fresh.queue.queueBackendKind()).toBe('redis');
     const { networkId, people } = world;
     const { job, instrument, serial } = await makeTransferJob(world, { family: 'baritone_saxophone' });

@@ -20,6 +20,7 @@ import {
   waitFor,
   waitForEvent,
   waitForMailCount,
+  waitForIdleQueue,
   waitForState,
   type TransferNetwork,
 } from '../helpers/transfers.js';
@@ -29,7 +30,7 @@ import {
  * job, the worker moves the job and instrument, writes history, stores the manifest in S3, and tells
  * both shops in the app and by e-mail (caught by the local mail catcher).
  */
-describe('transfer lifecycle through the worker (PostgreSQL queue)', () => {
+describe('transfer lifecycle through the worker (PostgreSQL queue)', { timeout: 120_000 }, () => {
   const app = buildApp();
   let worker: Worker;
   let world: TransferNetwork;
@@ -39,6 +40,7 @@ describe('transfer lifecycle through the worker (PostgreSQL queue)', () => {
     world = await makeTransferNetwork();
     for (const [key, user] of Object.entries(world.people)) cookies[key] = await signIn(app, user.email);
     worker = startWorker(4);
+    await waitForIdleQueue();
   });
 
   afterAll(async () => {
