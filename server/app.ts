@@ -16,6 +16,8 @@ import { padmapsRouter } from './modules/padmaps/routes.js';
 import { stockRouter } from './modules/stock/routes.js';
 import { jobsRouter } from './modules/jobs/routes.js';
 import { filesRouter } from './modules/files/routes.js';
+import { transfersRouter } from './modules/transfers/routes.js';
+import { notificationsRouter } from './modules/notifications/routes.js';
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
 export function buildApp() {
@@ -58,6 +60,8 @@ export function buildApp() {
   app.use(stockRouter);
   app.use(jobsRouter);
   app.use(filesRouter);
+  app.use(transfersRouter);
+  app.use(notificationsRouter);
 
   app.use('/api', notFoundHandler);
 

@@ -9,7 +9,7 @@ import { closeAppQueue, queueBackendKind } from './lib/queue.js';
 import { installProcessHandlers } from './lib/errors.js';
 import { ensureBucket } from './lib/storage.js';
 import { loadDemoNetwork } from './seed/demo.js';
-import { startWorker } from '../workers/processors.js';
+import { scheduleStartupWork, startWorker } from '../workers/processors.js';
 
 /**
  * Listens on config.port after migrating; loads the demo network once unless LOAD_DEMO=false;
@@ -25,6 +25,7 @@ export async function start() {
   }
   await ensureBucket().catch((err) => logger.warn({ err: err.message }, 'object storage not reachable yet'));
   const worker = config.embeddedWorker ? startWorker() : undefined;
+  if (worker) scheduleStartupWork().catch((err) => logger.warn({ err: err.message }, 'startup work not scheduled'));
   const app = buildApp();
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(config.port, () => resolve(s));

@@ -1,9 +1,23 @@
 import type { Job } from 'bullmq';
 import { sendMail } from '../server/lib/mail.js';
-import { createWorker, QUEUE_NAME } from '../server/lib/queue.js';
+import { appQueue, createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
+import { applyTransferStep, checkTransferArrival, scheduleOpenArrivalChecks } from '../server/modules/transfers/service.js';
+import { deliverOutbox, deliverOutboxMessage } from '../server/modules/notifications/service.js';
+import type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../server/modules/transfers/queue.js';
 import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
-import { deliverOutboxMessage } from '../server/modules/notifications/service.js';
+
+/**
+ * Tests only: `BENCHRELAY_CRASH_AFTER_COMMIT=<job name>` ends the process right after that job's
+ * transaction commits, before anything is sent — the crash the outbox exists for. With
+ * `BENCHRELAY_CRASH_TRANSFER_ID` set, only that transfer's step crashes.
+ */
+function crashAfterCommitIfAsked(jobName: string, transferId?: string) {
+  if (process.env.NODE_ENV !== 'test' || process.env.BENCHRELAY_CRASH_AFTER_COMMIT !== jobName) return;
+  const only = process.env.BENCHRELAY_CRASH_TRANSFER_ID;
+  if (only && only !== transferId) return;
+  process.exit(1);
+}
 
 /**
  * Each queued job names what it does; the processor calls the same service functions the routes use.
@@ -14,6 +28,10 @@ export const processors = {
     const messageId = await sendMail(job.data);
     return { messageId };
   },
+  'transfer-step': async (job: Job<TransferStepData>) =>
+    applyTransferStep(job.data, { afterCommit: () => crashAfterCommitIfAsked('transfer-step', job.data.transferId) }),
+  'transfer-arrival-check': async (job: Job<ArrivalCheckData>) => checkTransferArrival(job.data),
+  'send-outbox': async (job: Job<SendOutboxData>) => deliverOutbox({ dedupePrefix: job.data?.dedupePrefix }),
   // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed
   'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
     makeThumbnail(job.data.networkId, job.data.attachmentId),
@@ -33,11 +51,32 @@ export async function processJob(job: Job): Promise<unknown> {
   return run(job);
 }
 
-export function startWorker(concurrency = 4) {
-  const worker = createWorker(QUEUE_NAME, processJob, { concurrency });
+export interface WorkerTuning {
+  /** How long a job stays claimed without a heartbeat; a crashed worker's job returns after this. */
+  lockDuration?: number;
+  /** How often stalled jobs (claimed by a worker that died) are looked for. */
+  stalledInterval?: number;
+}
+
+export function startWorker(concurrency = 4, tuning: WorkerTuning = {}) {
+  const worker = createWorker(QUEUE_NAME, processJob, {
+    concurrency,
+    ...(tuning.lockDuration ? { lockDuration: tuning.lockDuration } : {}),
+    ...(tuning.stalledInterval ? { stalledInterval: tuning.stalledInterval } : {}),
+  });
   worker.on('failed', (job, err) =>
     logger.warn({ jobId: job?.id, name: job?.name, attempt: job?.attemptsMade, err: err.message }, 'queued job failed'),
   );
   worker.on('error', (err) => logger.error({ err }, 'worker error'));
   return worker;
+}
+
+/**
+ * Work a worker sets up when it starts. E-mails left pending (their send job gave up while the mail
+ * server was down) go out with the next sweep, every ten minutes; sending is per row and marks the row,
+ * so a sweep never repeats a message. Every transfer on the road gets its arrival check.
+ */
+export async function scheduleStartupWork() {
+  await appQueue().upsertJobScheduler('outbox-sweep', { every: 10 * 60_000 }, { name: 'send-outbox', data: {} });
+  await scheduleOpenArrivalChecks();
 }

@@ -1,16 +1,21 @@
-import { startWorker } from './processors.js';
+import { scheduleStartupWork, startWorker } from './processors.js';
 import { logger } from '../server/lib/logger.js';
-import { queueBackendKind } from '../server/lib/queue.js';
+import { closeAppQueue, queueBackendKind } from '../server/lib/queue.js';
 import { installProcessHandlers } from '../server/lib/errors.js';
 
 /** A worker as its own process (`npm run worker`), for the Redis backend where workers scale out. */
 installProcessHandlers();
-const worker = startWorker(Number(process.env.WORKER_CONCURRENCY ?? 8));
+const worker = startWorker(Number(process.env.WORKER_CONCURRENCY ?? 8), {
+  lockDuration: Number(process.env.WORKER_LOCK_MS) || undefined,
+  stalledInterval: Number(process.env.WORKER_STALLED_INTERVAL_MS) || undefined,
+});
+scheduleStartupWork().catch((err) => logger.warn({ err: err.message }, 'startup work not scheduled'));
 logger.info({ backend: queueBackendKind() }, 'worker started');
 
 async function stop(signal: string) {
   logger.info({ signal }, 'worker stopping');
   await worker.close();
+  await closeAppQueue().catch(() => undefined);
   process.exit(0);
 }
 process.on('SIGINT', () => void stop('SIGINT'));

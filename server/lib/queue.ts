@@ -1,4 +1,15 @@
-import { Queue as RedisQueue, Worker as RedisWorker, withBackend, createPostgresBackend, type Processor, type WorkerOptions, type QueueOptions } from 'bullmq';
+import {
+  Queue as RedisQueue,
+  Worker as RedisWorker,
+  RedisConnection,
+  createIORedisClient,
+  withBackend,
+  createPostgresBackend,
+  type Processor,
+  type WorkerOptions,
+  type QueueOptions,
+} from 'bullmq';
+import { Redis as IORedis } from 'ioredis';
 import { config } from '../config.js';
 
 /** The one queue the app uses; job names say what each job does (see workers/processors.ts). */
@@ -20,6 +31,9 @@ function backend() {
       db: url.pathname.length > 1 ? Number(url.pathname.slice(1)) : 0,
       maxRetriesPerRequest: null,
     };
+    // BullMQ loads its optional ioredis driver with require(), which native ESM (tsx, Vitest) lacks; a factory
+    // hands it the client instead, and BullMQ still owns and closes each connection it makes from options.
+    RedisConnection.clientFactory ??= (opts) => createIORedisClient(new IORedis(opts));
     return { kind: 'redis' as const, Queue: RedisQueue, Worker: RedisWorker, connection };
   }
   const pgClasses = withBackend(createPostgresBackend);

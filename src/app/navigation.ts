@@ -18,6 +18,7 @@ export const navItems: NavItem[] = [
   { to: '/intake', label: 'Intake', requires: { action: 'create', subject: 'Job' } },
   { to: '/jobs', label: 'Job board', requires: { action: 'read', subject: 'Job' } },
   { to: '/bench', label: 'My bench', requires: { action: 'update', subject: 'Job' } },
+  { to: '/transfers', label: 'Transfers', requires: { action: 'read', subject: 'Transfer' } },
   { to: '/people', label: 'People', requires: { action: 'manage', subject: 'Membership' } },
   { to: '/shops', label: 'Shops', requires: { action: 'manage', subject: 'Shop' } },
   { to: '/catalog', label: 'Service catalog', requires: { action: 'create', subject: 'ServiceCatalog' } },

@@ -18,6 +18,9 @@ import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
 import { SignInRoute } from './routes/sign-in';
 import { ShopsRoute } from './routes/shops';
+import { TransfersRoute } from './routes/transfers';
+import { TransferNewRoute } from './routes/transfer-new';
+import { TransferDetailRoute } from './routes/transfer-detail';
 import { RegistryRoute } from './routes/registry';
 import { InstrumentRoute } from './routes/instrument';
 import { InstrumentLabelRoute } from './routes/instrument-label';
@@ -219,6 +222,30 @@ export const routes: RouteObject[] = [
             element: (
               <RequireAbility action="create" subject="Job">
                 <IntakeRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers',
+            element: (
+              <RequireAbility action="read" subject="Transfer">
+                <TransfersRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers/new',
+            element: (
+              <RequireAbility action="request" subject="Transfer">
+                <TransferNewRoute />
+              </RequireAbility>
+            ),
+          },
+          {
+            path: 'transfers/:id',
+            element: (
+              <RequireAbility action="read" subject="Transfer">
+                <TransferDetailRoute />
               </RequireAbility>
             ),
           },

@@ -1,14 +1,180 @@
-import type { Transaction } from 'sequelize';
-import { OutboxMessage } from '../../lib/models.js';
-import { sendMail, type OutgoingMail } from '../../lib/mail.js';
-import { appQueue } from '../../lib/queue.js';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { config } from '../../config.js';
+import { sequelize } from '../../lib/db.js';
+import { transport, type OutgoingMail } from '../../lib/mail.js';
 import { logger } from '../../lib/logger.js';
+import { appQueue } from '../../lib/queue.js';
+import { accessibleWhere, assertCan } from '../../lib/access.js';
+import { notFound } from '../../lib/errors.js';
+import type { Actor } from '../../lib/auth.js';
+import { Membership, Notification, NotificationPreference, OutboxMessage, User } from '../../lib/models.js';
+import type { NotificationKind, Role } from '../../../shared/domain.js';
 
 /**
- * E-mail through the outbox: the message row is written in the same transaction as the change that
- * caused it (a stage move), so a rolled-back change sends nothing and a committed one is never
- * forgotten; after the commit a queued 'deliver-outbox' job sends it. `dedupeKey` makes a repeated
- * step write the message once, and the job id makes a repeated enqueue run once.
+ * Notices: an in-app inbox entry per person and, unless they turned e-mail off for that kind, an e-mail
+ * written to the outbox in the caller's transaction. The outbox is sent afterwards (`deliverOutbox` for a
+ * step's rows, `deliverOutboxMessage` for one row), so a crash between the commit and the send loses
+ * nothing; every send claims its row with FOR UPDATE SKIP LOCKED and marks it sent in the same
+ * transaction, so two workers never send one message twice.
+ */
+
+export interface NoticeInput {
+  networkId: string;
+  kind: NotificationKind;
+  userIds: string[];
+  title: string;
+  body: string;
+  /** In-app path such as /transfers/…; e-mails carry it as an absolute link. */
+  link: string | null;
+  /** Stable for the event (e.g. `transfer:<id>:approved`); each person's copy appends their id. */
+  dedupeKey: string;
+  email?: { subject: string; text: string };
+}
+
+export interface OutboxPayload {
+  to: string;
+  subject: string;
+  text: string;
+  userId: string;
+  [key: string]: unknown;
+}
+
+/** Writes the in-app notices and queues the e-mails; a repeated call with the same key adds nothing. */
+export async function notify(input: NoticeInput, transaction?: Transaction) {
+  const userIds = [...new Set(input.userIds)];
+  if (!userIds.length) return { notified: 0, emailsQueued: 0, outboxKeys: [] as string[] };
+  const users = await User.findAll({
+    where: { networkId: input.networkId, id: { [Op.in]: userIds }, active: true },
+    transaction,
+  });
+  await Notification.bulkCreate(
+    users.map((u) => ({
+      networkId: input.networkId,
+      userId: u.id,
+      kind: input.kind,
+      title: input.title,
+      body: input.body,
+      link: input.link,
+      dedupeKey: `${input.dedupeKey}:${u.id}`,
+    })),
+    { transaction, ignoreDuplicates: true },
+  );
+
+  let outboxKeys: string[] = [];
+  if (input.email && users.length) {
+    const optedOut = await NotificationPreference.findAll({
+      where: { networkId: input.networkId, userId: { [Op.in]: users.map((u) => u.id) }, kind: input.kind, email: false },
+      transaction,
+    });
+    const quiet = new Set(optedOut.map((p) => p.userId));
+    const link = input.link ? `\n\nOpen it in Benchrelay: ${config.appOrigin}${input.link}` : '';
+    const rows = users
+      .filter((u) => !quiet.has(u.id))
+      .map((u) => ({
+        networkId: input.networkId,
+        kind: 'email',
+        dedupeKey: `${input.dedupeKey}:email:${u.id}`,
+        payload: {
+          to: `${u.name.replace(/[<>"]/g, '')} <${u.email}>`,
+          subject: input.email!.subject,
+          text: `${input.email!.text}${link}\n\nYou get this because you work at one of the shops involved. Change which notices reach you by e-mail in Benchrelay.`,
+          userId: u.id,
+        } satisfies OutboxPayload,
+      }));
+    await OutboxMessage.bulkCreate(rows, { transaction, ignoreDuplicates: true });
+    outboxKeys = rows.map((r) => r.dedupeKey);
+  }
+  return { notified: users.length, emailsQueued: outboxKeys.length, outboxKeys };
+}
+
+/** Active people holding one of `roles` at any of `shopIds` (owners are network-wide: ask with shopIds = null). */
+export async function peopleAt(networkId: string, shopIds: string[] | null, roles: Role[], transaction?: Transaction) {
+  const memberships = await Membership.findAll({
+    where: {
+      networkId,
+      role: { [Op.in]: roles },
+      ...(shopIds ? { shopId: { [Op.in]: shopIds } } : {}),
+    },
+    transaction,
+  });
+  const ids = [...new Set(memberships.map((m) => m.userId))];
+  if (!ids.length) return [];
+  const users = await User.findAll({ where: { networkId, id: { [Op.in]: ids }, active: true }, transaction });
+  return users.map((u) => u.id);
+}
+
+const MAX_ATTEMPTS = 10;
+
+interface ClaimedRow {
+  id: string;
+  networkId: string;
+  payload: Partial<OutgoingMail> & Record<string, unknown>;
+  attempts: number;
+}
+
+type SendOutcome = { kind: 'sent'; messageId: string } | { kind: 'failed'; error: Error };
+
+/**
+ * Sends a claimed row and records the outcome in the caller's transaction. The Message-ID comes from the
+ * row id: should a send ever repeat after a crash mid-commit, receiving servers can tell it is the same.
+ */
+async function sendClaimed(row: ClaimedRow, transaction: Transaction): Promise<SendOutcome> {
+  const where = { networkId: row.networkId, id: row.id };
+  const p = row.payload;
+  try {
+    const info = await transport.sendMail({
+      from: config.smtp.from,
+      to: p.to as string | string[],
+      subject: p.subject as string,
+      text: p.text as string,
+      ...(p.html ? { html: p.html as string } : {}),
+      messageId: `<${row.id}@outbox.benchrelay>`,
+    });
+    await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date(), lastError: null }, { where, transaction });
+    return { kind: 'sent', messageId: info.messageId };
+  } catch (err) {
+    await OutboxMessage.update({ attempts: row.attempts + 1, lastError: (err as Error).message.slice(0, 500) }, { where, transaction });
+    return { kind: 'failed', error: err as Error };
+  }
+}
+
+/**
+ * Sends pending outbox e-mails one at a time (those whose dedupe key starts with `dedupePrefix`, or all).
+ * A failed send is counted on the row and the call throws, so the queued job retries with backoff.
+ */
+export async function deliverOutbox(options: { dedupePrefix?: string; limit?: number } = {}) {
+  const limit = options.limit ?? 500;
+  let sent = 0;
+  for (let i = 0; i < limit; i++) {
+    const outcome = await sequelize.transaction(async (transaction) => {
+      const rows = await sequelize.query<{ id: string; network_id: string; payload: ClaimedRow['payload']; attempts: number }>(
+        `select id, network_id, payload, attempts
+           from outbox
+          where sent_at is null and attempts < :maxAttempts
+            and (cast(:prefix as text) is null or left(dedupe_key, length(cast(:prefix as text))) = cast(:prefix as text))
+          order by created_at, id
+          limit 1
+          for update skip locked`,
+        { type: QueryTypes.SELECT, transaction, replacements: { prefix: options.dedupePrefix ?? null, maxAttempts: MAX_ATTEMPTS } },
+      );
+      const row = rows[0];
+      if (!row) return null;
+      return sendClaimed({ id: row.id, networkId: row.network_id, payload: row.payload, attempts: row.attempts }, transaction);
+    });
+    if (!outcome) break;
+    if (outcome.kind === 'failed') {
+      logger.warn({ err: outcome.error.message }, 'outbox e-mail not sent; will retry');
+      throw new Error(`An e-mail could not be sent: ${outcome.error.message}`);
+    }
+    sent++;
+  }
+  return { sent };
+}
+
+/**
+ * One e-mail through the outbox, for a change that tells one person (a stage move): the row is written in
+ * the caller's transaction and, after the commit, a 'deliver-outbox' job sends it. `dedupeKey` makes a
+ * repeated step write the message once, and the job id makes a repeated enqueue run once.
  */
 export interface QueuedEmail extends OutgoingMail {
   networkId: string;
@@ -38,16 +204,51 @@ export async function queueEmail(mail: QueuedEmail, transaction: Transaction): P
   return row.id;
 }
 
-/** Sends one outbox message unless it went already; records failures for the next attempt. */
+/** Sends one outbox message unless it went already (or another worker is sending it); failures are recorded and rethrown. */
 export async function deliverOutboxMessage(networkId: string, outboxId: string): Promise<{ sent: boolean; messageId?: string }> {
-  const row = await OutboxMessage.findOne({ where: { networkId, id: outboxId } });
-  if (!row || row.sentAt) return { sent: false };
-  try {
-    const messageId = await sendMail(row.payload as unknown as OutgoingMail);
-    await OutboxMessage.update({ sentAt: new Date(), attempts: row.attempts + 1, lastError: null }, { where: { networkId, id: outboxId } });
-    return { sent: true, messageId };
-  } catch (err) {
-    await OutboxMessage.update({ attempts: row.attempts + 1, lastError: (err as Error).message.slice(0, 500) }, { where: { networkId, id: outboxId } });
-    throw err;
-  }
+  const outcome = await sequelize.transaction(async (transaction) => {
+    const row = await OutboxMessage.findOne({
+      where: { networkId, id: outboxId },
+      lock: transaction.LOCK.UPDATE,
+      skipLocked: true,
+      transaction,
+    });
+    if (!row || row.sentAt) return null;
+    return sendClaimed({ id: row.id, networkId, payload: row.payload as ClaimedRow['payload'], attempts: row.attempts }, transaction);
+  });
+  if (!outcome) return { sent: false };
+  if (outcome.kind === 'failed') throw outcome.error;
+  return { sent: true, messageId: outcome.messageId };
+}
+
+/** The signed-in person's inbox, newest first, with the count still unread. */
+export async function listInbox(actor: Actor, options: { limit?: number } = {}) {
+  const where = accessibleWhere(actor.ability, 'read', 'Notification');
+  if (!where) return { notifications: [], unread: 0 };
+  const scope = { ...where, networkId: actor.networkId, userId: actor.id };
+  const [rows, unread] = await Promise.all([
+    Notification.findAll({ where: scope, order: [['createdAt', 'DESC']], limit: Math.min(options.limit ?? 50, 200) }),
+    Notification.count({ where: { ...scope, readAt: null } }),
+  ]);
+  return {
+    notifications: rows.map((n) => ({
+      id: n.id,
+      kind: n.kind,
+      title: n.title,
+      body: n.body,
+      link: n.link,
+      readAt: n.readAt,
+      createdAt: n.createdAt,
+    })),
+    unread,
+  };
+}
+
+export async function markRead(actor: Actor, id: string) {
+  // a notice is personal: not even the owner marks someone else's as read
+  const row = await Notification.findOne({ where: { networkId: actor.networkId, id, userId: actor.id } });
+  if (!row) throw notFound('That notice');
+  assertCan(actor.ability, 'update', 'Notification', row.get({ plain: true }));
+  if (!row.readAt) await row.update({ readAt: new Date() });
+  return { id: row.id, readAt: row.readAt };
 }

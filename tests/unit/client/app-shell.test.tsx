@@ -194,11 +194,11 @@ describe('signed in (200 from /api/me)', () => {
     expect(within(mill).getByText('Quality check')).toBeInTheDocument();
   });
 
-  it('shows the dashboard, reports, registry, intake, job screens, People, Shops, the service catalog, stock and pad rules in the navigation for an owner', async () => {
+  it('shows the dashboard, reports, registry, intake, job screens, transfers, People, Shops, the service catalog, stock and pad rules in the navigation for an owner', async () => {
     renderApp('/', ownerAnswers);
     const nav = await screen.findByRole('navigation', { name: 'Main' });
     expect(within(nav).getAllByRole('link').map((link) => link.textContent)).toEqual([
-      'Home', 'Dashboard', 'Reports', 'Registry', 'Intake', 'Job board', 'My bench', 'People', 'Shops', 'Service catalog', 'Stock', 'Pad rules',
+      'Home', 'Dashboard', 'Reports', 'Registry', 'Intake', 'Job board', 'My bench', 'Transfers', 'People', 'Shops', 'Service catalog', 'Stock', 'Pad rules',
     ]);
   });
 

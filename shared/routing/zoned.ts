@@ -1,0 +1,56 @@
+import { TZDate } from '@date-fns/tz';
+import type { IsoWeekday } from '../domain.js';
+
+/** Wall-clock reading of an instant in a shop's time zone. Months are 1–12; weekdays ISO (Monday = 1). */
+export interface LocalParts {
+  year: number;
+  month: number;
+  day: number;
+  isoWeekday: IsoWeekday;
+  hour: number;
+  minute: number;
+}
+
+export function localParts(instant: Date, timeZone: string): LocalParts {
+  const z = new TZDate(instant.getTime(), timeZone);
+  const weekday = z.getDay();
+  return {
+    year: z.getFullYear(),
+    month: z.getMonth() + 1,
+    day: z.getDate(),
+    isoWeekday: (weekday === 0 ? 7 : weekday) as IsoWeekday,
+    hour: z.getHours(),
+    minute: z.getMinutes(),
+  };
+}
+
+/**
+ * The instant at a wall-clock time in a time zone. `day` may run past the month's end (day 32 is the
+ * 1st of the next month), which keeps "n days later" arithmetic free of month lengths and DST jumps.
+ */
+export function atLocal(year: number, month: number, day: number, hour: number, minute: number, timeZone: string): Date {
+  return new Date(new TZDate(year, month - 1, day, hour, minute, 0, 0, timeZone).getTime());
+}
+
+/** 'YYYY-MM-DD' of an instant in a time zone. */
+export function localDate(instant: Date, timeZone: string): string {
+  const p = localParts(instant, timeZone);
+  return `${p.year}-${String(p.month).padStart(2, '0')}-${String(p.day).padStart(2, '0')}`;
+}
+
+/** "Tue, Jun 11, 07:30" in the shop's zone, for reasons people read (the screens write dates the same way). */
+export function formatLocal(instant: Date, timeZone: string, withTime = true): string {
+  return new Intl.DateTimeFormat('en-US', {
+    timeZone,
+    weekday: 'short',
+    month: 'short',
+    day: 'numeric',
+    ...(withTime ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' } : {}),
+  }).format(instant);
+}
+
+/** "America/Los_Angeles" → "Los Angeles time". */
+export function zoneLabel(timeZone: string): string {
+  const city = timeZone.split('/').pop() ?? timeZone;
+  return `${city.replace(/_/g, ' ')} time`;
+}

@@ -1,0 +1,92 @@
+import { z } from 'zod';
+import type { InstrumentFamily, TransferState } from './domain.js';
+
+/** Transfers: the state machine, the words for it, and the request bodies both sides validate with. */
+
+export const TRANSFER_STATE_LABELS: Record<TransferState, string> = {
+  requested: 'Requested',
+  approved: 'Approved',
+  packed: 'Packed',
+  in_transit: 'In transit',
+  received: 'Received',
+  rejected: 'Rejected',
+  cancelled: 'Cancelled',
+};
+
+/** Where each state may go next. `requested` is where every transfer starts. */
+export const TRANSFER_TRANSITIONS: Record<TransferState, TransferState[]> = {
+  requested: ['approved', 'rejected', 'cancelled'],
+  approved: ['packed', 'cancelled'],
+  packed: ['in_transit', 'cancelled'],
+  // on the road nobody can call it back: it is received, and then can be sent again
+  in_transit: ['received'],
+  received: [],
+  rejected: [],
+  cancelled: [],
+};
+
+export const OPEN_TRANSFER_STATES: TransferState[] = ['requested', 'approved', 'packed', 'in_transit'];
+
+export function canMove(from: TransferState, to: TransferState): boolean {
+  return TRANSFER_TRANSITIONS[from].includes(to);
+}
+
+/**
+ * Families whose cases are heavy or bulky enough that lifting them deserves a caution (common practice:
+ * a baritone saxophone or a tuba in its case is a two-person or cart job in most shops).
+ */
+export const HEAVY_CASE_FAMILIES: InstrumentFamily[] = ['baritone_saxophone', 'tuba', 'euphonium'];
+
+export const LIFTING_CAUTION =
+  'A baritone saxophone or a tuba in its case is heavy and awkward to carry: lift it with two people ' +
+  'or move it on a cart, keep it close to your body and do not twist while carrying. Follow your workplace ' +
+  'rules for manual handling and your local codes; they take precedence over this note.';
+
+export function isHeavyCase(family: InstrumentFamily): boolean {
+  return HEAVY_CASE_FAMILIES.includes(family);
+}
+
+const uuid = z.string().uuid('Choose a valid record.');
+const text = (min: number, max: number, label: string) =>
+  z.string().trim().min(min, `${label} must be at least ${min} characters.`).max(max, `${label} is too long.`);
+
+export const createTransferSchema = z.object({
+  jobId: uuid,
+  toShopId: z.string({ error: 'Choose the destination shop.' }).uuid('Choose the destination shop.'),
+  reason: text(3, 1000, 'The reason'),
+});
+export type CreateTransferInput = z.infer<typeof createTransferSchema>;
+
+export const approveTransferSchema = z.object({ note: z.string().trim().max(1000, 'The note is too long.').optional() });
+export const reasonSchema = z.object({ reason: text(3, 1000, 'The reason') });
+
+export const packTransferSchema = z.object({
+  /** null: no relay run between the two shops, an ad-hoc courier takes it. */
+  relayRunId: uuid.nullable().optional(),
+  /** Required for heavy cases: the person packing has read the lifting caution. */
+  liftingAcknowledged: z.boolean().optional(),
+});
+
+export const handOverSchema = z.object({ relayRunId: uuid.nullable().optional() });
+
+export const RECEIVE_METHODS = ['scan', 'typed'] as const;
+export const receiveTransferSchema = z.object({
+  serial: z.string().trim().min(1, 'Scan or type the serial number on the instrument.').max(100, 'That serial is too long.'),
+  method: z.enum(RECEIVE_METHODS).default('typed'),
+});
+
+export const TRANSFER_VIEWS = ['incoming', 'outgoing', 'approvals', 'all'] as const;
+export type TransferView = (typeof TRANSFER_VIEWS)[number];
+export const listTransfersQuery = z.object({
+  view: z.enum(TRANSFER_VIEWS).default('all'),
+  shopId: uuid.optional(),
+  /** `open` = not yet received, rejected or cancelled. */
+  status: z.enum(['open', 'closed', 'any']).default('any'),
+});
+
+export const recommendationQuery = z.object({
+  jobId: uuid,
+  skillId: uuid.optional(),
+});
+
+export const requestableJobsQuery = z.object({ shopId: uuid });
