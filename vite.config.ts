@@ -35,7 +35,7 @@ export default defineConfig({
     environment: 'node',
     globalSetup: ['tests/helpers/global-setup.ts'],
     setupFiles: ['tests/helpers/setup-env.ts'],
-    testTimeout: 30000, hookTimeout: 120000,
+    testTimeout: 60000, hookTimeout: 180000,
     fileParallelism: false,
     reporters: ['default', './tests/helpers/summary-reporter.ts'],
   },

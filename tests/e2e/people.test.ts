@@ -56,7 +56,7 @@ describe('browser: per-shop roles from invitation to the screen', () => {
     expect(link).toBeTruthy();
     const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
     const page = await context.newPage();
-    page.setDefaultTimeout(10_000);
+    page.setDefaultTimeout(30_000);
     await page.goto(link!);
     await page.getByRole('heading', { name: /Join Harborline/ }).waitFor();
     expect(await page.getByText('Technician at Harborline Sacramento').count()).toBe(1);

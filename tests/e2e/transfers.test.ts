@@ -61,7 +61,7 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
 
   it('requests with the ranked recommendation, approves, packs, hands over and receives', { timeout: 120_000 }, async () => {
     const page = await browser.newPage();
-    page.setDefaultTimeout(15_000);
+    page.setDefaultTimeout(30_000);
     await signInInBrowser(page, app.url, new RegExp(demoPeople[1].name));
 
     // Seattle, then Transfers → Request a transfer

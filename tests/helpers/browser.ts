@@ -32,7 +32,7 @@ export async function startAppServer(): Promise<{ url: string; close(): Promise<
 
 /** Signs in from the app's own sign-in screen by picking a person on the provider's page. */
 export async function signInInBrowser(page: Page, appUrl: string, personName: string | RegExp) {
-  page.setDefaultTimeout(10_000);
+  page.setDefaultTimeout(20_000);
   await page.goto(`${appUrl}/`);
   await page.getByRole('link', { name: /sign in/i }).first().click();
   await page.getByRole('button', { name: personName }).click();

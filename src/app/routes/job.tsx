@@ -1,6 +1,8 @@
 import type { ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
+import { subject } from '@casl/ability';
+import { useAppAbility } from '@/lib/ability';
 import { ButtonLink } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import { EmptyState } from '@/components/ui/empty-state';
@@ -38,6 +40,7 @@ export function JobRoute() {
   const { jobId = '' } = useParams();
   const { currentShop } = useCurrentShop();
   const job = useQuery(jobQueryOptions(jobId));
+  const ability = useAppAbility();
   useDocumentTitle(job.data ? `Job ${job.data.job.number}` : 'Job');
 
   if (job.isPending) return <PageSpinner label="Loading the job…" />;
@@ -93,6 +96,21 @@ export function JobRoute() {
           </div>
         </dl>
         {d.job.complaint ? <p className="max-w-prose text-ink-800">“{d.job.complaint}”</p> : null}
+        <nav aria-label="This job elsewhere" className="flex flex-wrap gap-x-5 gap-y-2 text-sm">
+          <Link className="font-semibold text-accent-800 hover:underline" to={withShop(`/registry/instruments/${instrument.id}`, currentShop?.id)}>
+            Instrument history
+          </Link>
+          {ability.can('read', subject('PadMap', { shopId: d.shop.id })) ? (
+            <Link className="font-semibold text-accent-800 hover:underline" to={withShop(`/jobs/${d.job.id}/pad-map`, currentShop?.id)}>
+              Pad map
+            </Link>
+          ) : null}
+          {d.job.stage !== 'released' && ability.can('request', subject('Transfer', { fromShopId: d.shop.id })) ? (
+            <Link className="font-semibold text-accent-800 hover:underline" to={withShop(`/transfers/new?job=${d.job.id}`, currentShop?.id)}>
+              Request transfer to another shop
+            </Link>
+          ) : null}
+        </nav>
       </div>
 
       <Section id="job-next" title="Next step">
