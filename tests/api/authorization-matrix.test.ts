@@ -4,6 +4,7 @@ import { buildApp } from '../../server/app.js';
 import { buildWorld } from '../helpers/authz-world.js';
 import { listRoutes } from '../helpers/list-routes.js';
 import { closeServerResources } from '../helpers/close.js';
+import { appQueue } from '../../server/lib/queue.js';
 import { SCOPES, WHO, type AreaCases, type RouteCase, type Scope, type Who, type World } from './authz/types.js';
 
 /**
@@ -47,7 +48,12 @@ describe('authorization matrix', () => {
     for (const extend of extenders) await extend(world);
   });
 
-  afterAll(closeServerResources);
+  // The allowed cells queue real work (transfer steps, e-mails) that no worker here runs; later files
+  // start workers of their own and must not inherit it.
+  afterAll(async () => {
+    await appQueue().obliterate({ force: true });
+    await closeServerResources();
+  });
 
   it('has a case for every registered route', () => {
     const covered = new Set(cases.map((c) => c.route));

@@ -10,6 +10,8 @@ import { testEnv, TEST_PORTS, TEST_S3_DIR, TEST_DATABASE, TEST_DATA_DIR, TEST_CL
 export default async function setup() {
   Object.assign(process.env, testEnv);
   const root = process.cwd();
+  // a server this run starts is stopped at the end; one that was already running (npm start) is left alone
+  const pgState = execFileSync('bash', ['docker-free-dev/postgres.sh', 'start'], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'] }).trim();
   execFileSync('bash', ['docker-free-dev/postgres.sh', 'reset-db', TEST_DATABASE], { stdio: ['ignore', 'ignore', 'inherit'] });
 
   // the browser tests need the real client; build it once per run into the test's own folder
@@ -50,5 +52,6 @@ export default async function setup() {
 
   return async () => {
     await Promise.allSettled([idp.close(), s3.close(), mail.close()]);
+    if (pgState.endsWith('started')) execFileSync('bash', ['docker-free-dev/postgres.sh', 'stop'], { stdio: 'ignore' });
   };
 }

@@ -5,6 +5,7 @@ import { Customer, OutboxMessage } from '../../../server/lib/models.js';
 import { waitForMail } from '../../../server/lib/mail.js';
 import { startWorker } from '../../../workers/processors.js';
 import { closeServerResources } from '../../helpers/close.js';
+import { waitForIdleQueue } from '../../helpers/transfers.js';
 import { makeInstrumentWithJob } from '../../helpers/factories.js';
 import { makeBenchWorld } from '../../helpers/bench-world.js';
 import type { JobStage } from '../../../shared/domain.js';
@@ -18,6 +19,8 @@ describe('e-mails to the customer', () => {
   beforeAll(async () => {
     w = await makeBenchWorld(app, ['front_desk', 'technician']);
     worker = startWorker(2);
+    // earlier files may leave queued work behind; let the worker clear it before timing our own mail
+    await waitForIdleQueue();
   });
   afterAll(async () => {
     await worker?.close();
