@@ -119,3 +119,32 @@ export const relayRunUpdateSchema = z.object({
 export type RelayRunUpdate = z.infer<typeof relayRunUpdateSchema>;
 
 export const relayRunQuerySchema = z.object({ shopId: z.uuid().optional() });
+
+/** A shop as the Shops API answers it; the server builds it and the client reads it. */
+export interface ShopSkillView {
+  skillId: string;
+  code: string;
+  name: string;
+  weeklyBenchHours: number;
+}
+
+export interface ShopView {
+  id: string;
+  name: string;
+  code: string;
+  addressLine: string | null;
+  city: string | null;
+  region: string | null;
+  postalCode: string | null;
+  country: string;
+  latitude: number | null;
+  longitude: number | null;
+  timeZone: string;
+  openingDays: number[];
+  laborRateCents: number;
+  taxRateBasisPoints: number;
+  phone: string | null;
+  email: string | null;
+  active: boolean;
+  skills: ShopSkillView[];
+}

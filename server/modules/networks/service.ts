@@ -41,26 +41,8 @@ export async function shopSummaries(actor: Actor) {
 // ---------------------------------------------------------------------------------------------
 // Shops, skills, technicians' hours and relay runs
 
-export interface ShopView {
-  id: string;
-  name: string;
-  code: string;
-  addressLine: string | null;
-  city: string | null;
-  region: string | null;
-  postalCode: string | null;
-  country: string;
-  latitude: number | null;
-  longitude: number | null;
-  timeZone: string;
-  openingDays: number[];
-  laborRateCents: number;
-  taxRateBasisPoints: number;
-  phone: string | null;
-  email: string | null;
-  active: boolean;
-  skills: Array<{ skillId: string; code: string; name: string; weeklyBenchHours: number }>;
-}
+import type { ShopView } from '../../../shared/schemas/shops.js';
+export type { ShopView };
 
 export interface RelayRunView {
   id: string;

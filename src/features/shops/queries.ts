@@ -24,33 +24,9 @@ export function shopsSummaryQueryOptions() {
 }
 
 /** The bodies of the Shops API (server/modules/networks). */
-export interface ShopSkill {
-  skillId: string;
-  code: string;
-  name: string;
-  weeklyBenchHours: number;
-}
+import type { ShopSkillView as ShopSkill, ShopView as Shop } from '@shared/schemas/shops';
+export type { ShopSkill, Shop };
 
-export interface Shop {
-  id: string;
-  name: string;
-  code: string;
-  addressLine: string | null;
-  city: string | null;
-  region: string | null;
-  postalCode: string | null;
-  country: string;
-  latitude: number | null;
-  longitude: number | null;
-  timeZone: string;
-  openingDays: number[];
-  laborRateCents: number;
-  taxRateBasisPoints: number;
-  phone: string | null;
-  email: string | null;
-  active: boolean;
-  skills: ShopSkill[];
-}
 
 export interface RelayRun {
   id: string;
