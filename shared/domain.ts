@@ -57,5 +57,29 @@ export const NOTIFICATION_KINDS = [
 ] as const;
 export type NotificationKind = (typeof NOTIFICATION_KINDS)[number];
 
+/** What each kind of notice is called on the inbox and preferences screens, and who it is for. */
+export const NOTIFICATION_KIND_LABELS: Record<NotificationKind, { label: string; description: string }> = {
+  transfer_incoming: { label: 'Transfers', description: 'A transfer to or from your shop was requested, approved, packed, sent, received or stopped.' },
+  transfer_overdue: { label: 'Overdue transfers', description: 'An instrument on the road has not arrived by its expected date.' },
+  job_ready: { label: 'Jobs ready', description: 'A job at your front desk passed its final check and can be collected.' },
+  estimate_awaiting_approval: { label: 'Estimates awaiting approval', description: 'An estimate went to the customer and waits for their answer.' },
+  invitation_accepted: { label: 'Invitations accepted', description: 'Someone you invited has joined the network.' },
+  stock_shortage: { label: 'Stock shortages', description: 'A job reserved more of a part than your shop has on the shelf.' },
+};
+
+/**
+ * Whether a kind also goes out by e-mail until the person chooses otherwise: the kinds that ask someone
+ * to act soon (something is arriving or late, someone joined, a part is short) do; the everyday
+ * front-desk notices (many a day) stay in the inbox unless the person turns their e-mail on.
+ */
+export const NOTIFICATION_EMAIL_DEFAULTS: Record<NotificationKind, boolean> = {
+  transfer_incoming: true,
+  transfer_overdue: true,
+  job_ready: false,
+  estimate_awaiting_approval: false,
+  invitation_accepted: true,
+  stock_shortage: true,
+};
+
 /** ISO weekday numbers, Monday = 1 … Sunday = 7 (as date-fns `getISODay`). */
 export type IsoWeekday = 1 | 2 | 3 | 4 | 5 | 6 | 7;

@@ -46,7 +46,7 @@ import type {
   PersonRef,
   TimeLogDto,
 } from '../../../shared/jobs/dto.js';
-import { queueEmail } from '../notifications/service.js';
+import { notify, peopleAt, queueEmail } from '../notifications/service.js';
 
 /**
  * Jobs at the bench: the board, the job page, stage moves, the estimate, approvals, time and the
@@ -470,7 +470,44 @@ export async function applyStageMove(
   }
   if (check.to === 'assessed') await queueCustomerMail(job, 'estimate', event.id, transaction);
   if (check.to === 'ready') await queueCustomerMail(job, 'ready', event.id, transaction);
+  if (check.to === 'assessed' || check.to === 'ready') await noticeFrontDesk(job, check.to, event.id, by.userId, transaction);
   return { job, from };
+}
+
+/**
+ * The front desk of the job's shop hears when an estimate goes out (they follow up with the customer)
+ * and when the work is ready (they arrange the collection). The person who made the move is not told.
+ */
+async function noticeFrontDesk(job: Job, stage: 'assessed' | 'ready', eventId: string, byUserId: string | null, transaction: Transaction) {
+  const [desk, shop, instrument] = await Promise.all([
+    peopleAt(job.networkId, [job.shopId], ['front_desk'], transaction),
+    Shop.findOne({ where: { networkId: job.networkId, id: job.shopId }, attributes: ['name'], transaction }),
+    Instrument.findOne({ where: { networkId: job.networkId, id: job.instrumentId }, attributes: ['family', 'maker', 'serial'], transaction }),
+  ]);
+  const what = instrument ? `${INSTRUMENT_FAMILY_LABELS[instrument.family]} ${instrument.maker}, serial ${instrument.serial}` : 'The instrument';
+  const where = shop?.name ?? 'the shop';
+  const text =
+    stage === 'ready'
+      ? { kind: 'job_ready' as const, title: `Job ${job.number} is ready to collect`, body: `${what} passed its final check at ${where}.` }
+      : {
+          kind: 'estimate_awaiting_approval' as const,
+          title: `Estimate for job ${job.number} awaits approval`,
+          body: `${what}: the estimate is with the customer; work at ${where} starts once they approve.`,
+        };
+  await notify(
+    {
+      networkId: job.networkId,
+      kind: text.kind,
+      userIds: desk.filter((id) => id !== byUserId),
+      title: text.title,
+      body: text.body,
+      link: `/jobs/${job.id}`,
+      dedupeKey: `${text.kind}:${job.id}:${eventId}`,
+      email: { subject: text.title, text: text.body },
+      sendAfterCommit: true,
+    },
+    transaction,
+  );
 }
 
 export async function moveJobStage(actor: Actor, jobId: string, input: z.infer<typeof stageMoveSchema>): Promise<JobDetail> {

@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { Op, type Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
-import { Invitation, Membership, Network, Notification, Shop, User } from '../../lib/models.js';
+import { Invitation, Membership, Network, Shop, User } from '../../lib/models.js';
 import type { InvitedRole } from './models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
@@ -16,6 +16,7 @@ import {
   type InvitationStatus,
 } from '../../../shared/schemas/people.js';
 import { audit } from './service.js';
+import { notify } from '../notifications/service.js';
 
 /**
  * Invitations by e-mail. The link carries a random token; only its SHA-256 hash is stored, so a copy
@@ -299,17 +300,20 @@ export async function acceptInvitation(identity: AcceptingIdentity, token: strin
     const before = snapshot(inv);
     await inv.update({ acceptedAt: new Date(), acceptedUserId: user.id }, { transaction });
     await audit(who, 'invitation.accepted', 'Invitation', inv.id, before, snapshot(inv), transaction);
-    await Notification.create(
+    const roleText = describeRoles(inv.roles, names).join('; ');
+    await notify(
       {
         networkId,
-        userId: inv.invitedByUserId,
         kind: 'invitation_accepted',
+        userIds: [inv.invitedByUserId],
         title: `${user.name} accepted your invitation`,
-        body: describeRoles(inv.roles, names).join('; '),
+        body: roleText,
         link: '/people',
         dedupeKey: `invitation_accepted:${inv.id}`,
+        email: { subject: `${user.name} joined Benchrelay`, text: `${user.name} (${user.email}) accepted your invitation: ${roleText}.` },
+        sendAfterCommit: true,
       },
-      { transaction },
+      transaction,
     );
     return { userId: user.id, networkId };
   });

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
@@ -8,7 +9,7 @@ import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { notFound } from '../../lib/errors.js';
 import type { Actor } from '../../lib/auth.js';
 import { Membership, Notification, NotificationPreference, OutboxMessage, User } from '../../lib/models.js';
-import type { NotificationKind, Role } from '../../../shared/domain.js';
+import { NOTIFICATION_EMAIL_DEFAULTS, NOTIFICATION_KINDS, type NotificationKind, type Role } from '../../../shared/domain.js';
 
 /**
  * Notices: an in-app inbox entry per person and, unless they turned e-mail off for that kind, an e-mail
@@ -29,6 +30,29 @@ export interface NoticeInput {
   /** Stable for the event (e.g. `transfer:<id>:approved`); each person's copy appends their id. */
   dedupeKey: string;
   email?: { subject: string; text: string };
+  /**
+   * Queue a 'send-outbox' job for these e-mails once the transaction commits (a step in a web request).
+   * Worker steps that send their own outbox rows afterwards leave this off.
+   */
+  sendAfterCommit?: boolean;
+}
+
+/** BullMQ job ids may not contain ':'; a digest of the event key keeps one job per event. */
+const sendJobId = (dedupeKey: string) => `notice-${createHash('sha1').update(dedupeKey).digest('hex')}`;
+
+function sendAfterCommit(dedupeKey: string, transaction?: Transaction) {
+  const enqueue = () => {
+    appQueue()
+      .add('send-outbox', { dedupePrefix: `${dedupeKey}:` }, {
+        jobId: sendJobId(dedupeKey),
+        attempts: 6,
+        backoff: { type: 'exponential', delay: 2000 },
+        removeOnComplete: 1000,
+      })
+      .catch((err: Error) => logger.warn({ err: err.message, dedupeKey }, 'could not enqueue notice e-mails; the outbox sweep sends them'));
+  };
+  if (transaction) transaction.afterCommit(enqueue);
+  else enqueue();
 }
 
 export interface OutboxPayload {
@@ -62,14 +86,15 @@ export async function notify(input: NoticeInput, transaction?: Transaction) {
 
   let outboxKeys: string[] = [];
   if (input.email && users.length) {
-    const optedOut = await NotificationPreference.findAll({
-      where: { networkId: input.networkId, userId: { [Op.in]: users.map((u) => u.id) }, kind: input.kind, email: false },
+    const choices = await NotificationPreference.findAll({
+      where: { networkId: input.networkId, userId: { [Op.in]: users.map((u) => u.id) }, kind: input.kind },
       transaction,
     });
-    const quiet = new Set(optedOut.map((p) => p.userId));
+    const chosen = new Map(choices.map((p) => [p.userId, p.email]));
+    const wantsEmail = (userId: string) => chosen.get(userId) ?? NOTIFICATION_EMAIL_DEFAULTS[input.kind];
     const link = input.link ? `\n\nOpen it in Benchrelay: ${config.appOrigin}${input.link}` : '';
     const rows = users
-      .filter((u) => !quiet.has(u.id))
+      .filter((u) => wantsEmail(u.id))
       .map((u) => ({
         networkId: input.networkId,
         kind: 'email',
@@ -83,6 +108,7 @@ export async function notify(input: NoticeInput, transaction?: Transaction) {
       }));
     await OutboxMessage.bulkCreate(rows, { transaction, ignoreDuplicates: true });
     outboxKeys = rows.map((r) => r.dedupeKey);
+    if (input.sendAfterCommit && rows.length) sendAfterCommit(input.dedupeKey, transaction);
   }
   return { notified: users.length, emailsQueued: outboxKeys.length, outboxKeys };
 }
@@ -221,14 +247,27 @@ export async function deliverOutboxMessage(networkId: string, outboxId: string):
   return { sent: true, messageId: outcome.messageId };
 }
 
-/** The signed-in person's inbox, newest first, with the count still unread. */
-export async function listInbox(actor: Actor, options: { limit?: number } = {}) {
+/** The signed-in person's own notices (a notice is personal: not even the owner reads someone else's). */
+function inboxScope(actor: Actor) {
   const where = accessibleWhere(actor.ability, 'read', 'Notification');
-  if (!where) return { notifications: [], unread: 0 };
-  const scope = { ...where, networkId: actor.networkId, userId: actor.id };
-  const [rows, unread] = await Promise.all([
-    Notification.findAll({ where: scope, order: [['createdAt', 'DESC']], limit: Math.min(options.limit ?? 50, 200) }),
+  if (!where) return null;
+  return { ...where, networkId: actor.networkId, userId: actor.id };
+}
+
+export interface InboxQuery {
+  limit?: number;
+  unreadOnly?: boolean;
+}
+
+/** The signed-in person's inbox, newest first, with the count still unread. */
+export async function listInbox(actor: Actor, options: InboxQuery = {}) {
+  const scope = inboxScope(actor);
+  if (!scope) return { notifications: [], unread: 0, total: 0 };
+  const where = options.unreadOnly ? { ...scope, readAt: null } : scope;
+  const [rows, unread, total] = await Promise.all([
+    Notification.findAll({ where, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: Math.min(options.limit ?? 50, 200) }),
     Notification.count({ where: { ...scope, readAt: null } }),
+    Notification.count({ where }),
   ]);
   return {
     notifications: rows.map((n) => ({
@@ -241,14 +280,74 @@ export async function listInbox(actor: Actor, options: { limit?: number } = {}) 
       createdAt: n.createdAt,
     })),
     unread,
+    total,
   };
 }
 
+/** Just the number for the header badge, which asks often: one indexed count. */
+export async function unreadCount(actor: Actor) {
+  const scope = inboxScope(actor);
+  if (!scope) return { unread: 0 };
+  return { unread: await Notification.count({ where: { ...scope, readAt: null } }) };
+}
+
 export async function markRead(actor: Actor, id: string) {
-  // a notice is personal: not even the owner marks someone else's as read
   const row = await Notification.findOne({ where: { networkId: actor.networkId, id, userId: actor.id } });
   if (!row) throw notFound('That notice');
   assertCan(actor.ability, 'update', 'Notification', row.get({ plain: true }));
   if (!row.readAt) await row.update({ readAt: new Date() });
   return { id: row.id, readAt: row.readAt };
+}
+
+/**
+ * Marks every unread notice read, up to `upTo` (the newest notice the person saw), so one that arrived
+ * while they were reading is not swept away unseen.
+ */
+export async function markAllRead(actor: Actor, upTo?: Date) {
+  const scope = inboxScope(actor);
+  if (!scope || !actor.ability.can('update', 'Notification')) return { marked: 0, unread: 0 };
+  const [marked] = await Notification.update(
+    { readAt: new Date() },
+    { where: { ...scope, readAt: null, ...(upTo ? { createdAt: { [Op.lte]: upTo } } : {}) } },
+  );
+  return { marked, ...(await unreadCount(actor)) };
+}
+
+export interface NotificationChoice {
+  kind: NotificationKind;
+  email: boolean;
+  /** False when the person never chose and the default applies. */
+  chosen: boolean;
+  defaultEmail: boolean;
+}
+
+/** For each kind, whether the person gets it by e-mail too (their choice, or the default). */
+export async function getPreferences(actor: Actor): Promise<{ email: string; preferences: NotificationChoice[] }> {
+  const [rows, user] = await Promise.all([
+    NotificationPreference.findAll({ where: { networkId: actor.networkId, userId: actor.id } }),
+    User.findOne({ where: { networkId: actor.networkId, id: actor.id }, attributes: ['email'] }),
+  ]);
+  const chosen = new Map(rows.map((r) => [r.kind, r.email]));
+  return {
+    email: user?.email ?? '',
+    preferences: NOTIFICATION_KINDS.map((kind) => ({
+      kind,
+      email: chosen.get(kind) ?? NOTIFICATION_EMAIL_DEFAULTS[kind],
+      chosen: chosen.has(kind),
+      defaultEmail: NOTIFICATION_EMAIL_DEFAULTS[kind],
+    })),
+  };
+}
+
+/** Saves the person's choices (only the kinds given); every kind is valid for everyone, the inbox always gets it. */
+export async function setPreferences(actor: Actor, choices: Array<{ kind: NotificationKind; email: boolean }>) {
+  await sequelize.transaction(async (transaction) => {
+    for (const c of choices) {
+      await NotificationPreference.upsert(
+        { networkId: actor.networkId, userId: actor.id, kind: c.kind, email: c.email },
+        { transaction },
+      );
+    }
+  });
+  return getPreferences(actor);
 }

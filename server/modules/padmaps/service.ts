@@ -307,6 +307,7 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
       scope: padPartIds,
       wanted: new Map(lines.map((p) => [p.partId!, p.quantity])),
       transaction,
+      byUserId: actor.id,
     });
 
     const shop = await Shop.findOne({ where: { networkId: actor.networkId, id: job.shopId }, attributes: ['name'], transaction });

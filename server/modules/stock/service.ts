@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { subject } from '@casl/ability';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
@@ -8,6 +9,7 @@ import { badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import type { PadCatalog } from '../../../shared/padmap/compute.js';
 import type { PadKind } from '../../../shared/padmap/rules.js';
 import { PartTransfer, type PartTransferState } from './models.js';
+import { notify, peopleAt } from '../notifications/service.js';
 
 /**
  * Stock per shop, reservations for jobs, and parts sent between shops.
@@ -104,8 +106,11 @@ export async function syncJobReservations(args: {
   scope: Set<string>;
   wanted: Map<string, number>;
   transaction: Transaction;
-}): Promise<{ reserved: number; released: number }> {
+  /** Who saved the change; they see the shortage on screen and are not sent a notice of it. */
+  byUserId?: string | null;
+}): Promise<{ reserved: number; released: number; newShortages: string[] }> {
   const { networkId, jobId, shopId, scope, wanted, transaction } = args;
+  const shortBefore = await shortParts(networkId, shopId, [...wanted.keys()], transaction);
   const open = await StockReservation.findAll({
     where: { networkId, jobId, releasedAt: null },
     transaction,
@@ -135,7 +140,64 @@ export async function syncJobReservations(args: {
       reserved += want;
     }
   }
-  return { reserved, released };
+  const shortAfter = await shortParts(networkId, shopId, [...wanted.keys()], transaction);
+  const newShortages = [...shortAfter.keys()].filter((partId) => !shortBefore.has(partId));
+  if (newShortages.length) await noticeShortages({ networkId, shopId, jobId, partIds: newShortages, short: shortAfter, byUserId: args.byUserId ?? null, transaction });
+  return { reserved, released, newShortages };
+}
+
+/** The parts (of `partIds`) a shop has reserved more of than it has on hand, with how many it is short. */
+async function shortParts(networkId: string, shopId: string, partIds: string[], transaction: Transaction) {
+  if (!partIds.length) return new Map<string, number>();
+  const rows = await StockLevel.findAll({
+    where: { networkId, shopId, partId: { [Op.in]: partIds } },
+    attributes: ['partId', 'onHand', 'reserved'],
+    transaction,
+  });
+  return new Map(rows.filter((r) => r.reserved > r.onHand).map((r) => [r.partId, r.reserved - r.onHand]));
+}
+
+/**
+ * A job's reservation has just made a shop short of parts: its regional managers (who order) and
+ * technicians (who may ask another shop for them) hear of it once per job, part and reservation change.
+ */
+async function noticeShortages(args: {
+  networkId: string; shopId: string; jobId: string; partIds: string[]; short: Map<string, number>; byUserId: string | null; transaction: Transaction;
+}) {
+  const { networkId, shopId, jobId, partIds, short, transaction } = args;
+  const [people, shop, job, parts] = await Promise.all([
+    peopleAt(networkId, [shopId], ['regional_manager', 'technician'], transaction),
+    Shop.findOne({ where: { networkId, id: shopId }, attributes: ['name'], transaction }),
+    Job.findOne({ where: { networkId, id: jobId }, attributes: ['number'], transaction }),
+    Part.findAll({ where: { networkId, id: { [Op.in]: partIds } }, attributes: ['id', 'sku', 'name'], order: [['sku', 'ASC']], transaction }),
+  ]);
+  const recipients = people.filter((id) => id !== args.byUserId);
+  if (!recipients.length || !parts.length) return;
+  const lines = parts.map((p) => `${p.name} (${p.sku}): short ${short.get(p.id)}`);
+  const title = `${shop?.name ?? 'Your shop'} is short of ${parts.length === 1 ? parts[0].name : `${parts.length} parts`}`;
+  const body = `Job ${job?.number ?? ''} reserved more than the shelf holds. ${lines.join('; ')}.`;
+  // the open reservation ids make the key: a later change that makes the shop short again is a new notice
+  const open = await StockReservation.findAll({
+    where: { networkId, jobId, shopId, partId: { [Op.in]: partIds }, releasedAt: null },
+    attributes: ['id'],
+    order: [['id', 'ASC']],
+    transaction,
+  });
+  const key = createHash('sha1').update(open.map((r) => r.id).join(',')).digest('hex');
+  await notify(
+    {
+      networkId,
+      kind: 'stock_shortage',
+      userIds: recipients,
+      title,
+      body,
+      link: `/stock?shop=${shopId}`,
+      dedupeKey: `stock_shortage:${jobId}:${key}`,
+      email: { subject: title, text: body },
+      sendAfterCommit: true,
+    },
+    transaction,
+  );
 }
 
 /** Releases every open reservation of a job (or only of the given parts): the parts go back on the shelf. */

@@ -7,6 +7,16 @@ const ownOnly = { owner: ['own'], regional_manager: ['own'], front_desk: ['own']
 
 export const cases: RouteCase[] = [
   { route: 'GET /api/notifications', scopeless: true, allow: signedIn, build: () => ({ path: '/api/notifications' }) },
+  { route: 'GET /api/notifications/unread-count', scopeless: true, allow: signedIn, build: () => ({ path: '/api/notifications/unread-count' }) },
+  // marks only the caller's own notices read: there is no target to reach into another shop or network
+  { route: 'POST /api/notifications/read-all', scopeless: true, allow: signedIn, build: () => ({ path: '/api/notifications/read-all', body: {} }) },
+  { route: 'GET /api/notification-preferences', scopeless: true, allow: signedIn, build: () => ({ path: '/api/notification-preferences' }) },
+  {
+    route: 'PUT /api/notification-preferences',
+    scopeless: true,
+    allow: signedIn,
+    build: () => ({ path: '/api/notification-preferences', body: { preferences: [{ kind: 'job_ready', email: false }] } }),
+  },
   {
     // `own`: a notice of the person asking; `otherShop`: someone else's in the same network; `otherNetwork`: another network's
     route: 'POST /api/notifications/:id/read',

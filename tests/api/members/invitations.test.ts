@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { buildApp } from '../../../server/app.js';
 import { waitForMail, type CaughtMail } from '../../../server/lib/mail.js';
-import { AuditLog, Invitation, Membership, Notification, User } from '../../../server/lib/models.js';
+import { AuditLog, Invitation, Membership, Notification, OutboxMessage, User } from '../../../server/lib/models.js';
 import { hashToken } from '../../../server/modules/members/invitations.js';
 import { closeServerResources } from '../../helpers/close.js';
 import { makeNetwork, makeShop, makeUser, uniq } from '../../helpers/factories.js';
@@ -99,6 +99,9 @@ describe('invitations', () => {
     // the inviter hears about it, and the log has the whole story
     const notice = await Notification.findOne({ where: { networkId, userId: owner.id, kind: 'invitation_accepted' } });
     expect(notice?.title).toContain('accepted your invitation');
+    // invitation_accepted goes by e-mail too unless the inviter turned it off (the default is on)
+    const outbox = await OutboxMessage.findOne({ where: { networkId, dedupeKey: `invitation_accepted:${stored!.id}:email:${owner.id}` } });
+    expect(outbox?.payload).toMatchObject({ to: expect.stringContaining(owner.email), subject: expect.stringContaining('joined Benchrelay') });
     const actions = (await AuditLog.findAll({ where: { networkId, entityId: stored!.id } })).map((a) => a.action).sort();
     expect(actions).toEqual(['invitation.accepted', 'invitation.created']);
   });
