@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { QueryTypes, type CreationAttributes, type Transaction } from 'sequelize';
-import { JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind, type Role } from '../../shared/domain.js';
+import { JOB_STAGES, type InstrumentFamily, type JobStage, type NotificationKind, type OwnerKind, type Role } from '../../shared/domain.js';
 import {
   Customer,
   HistoryEvent,
@@ -903,17 +903,23 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   await PadMap.bulkCreate(padMapRows, t);
   await HistoryEvent.bulkCreate(padMapEvents, t);
 
-  // a few notices so the inbox is not empty
+  // a few notices so the inbox is not empty, worded as the app words them (server/modules/jobs, stock, transfers)
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
+  const jobNo = (key: string) => numberOf.get(jobAt(key).id)!;
+  const notices: Array<{ user: string; kind: NotificationKind; link: string; title: string; body: string; hoursAgo: number; read?: boolean }> = [
+    { user: 'desk', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
+    { user: 'desk', kind: 'estimate_awaiting_approval', link: `/jobs/${jobAt('flute1').id}`, title: `Estimate for job ${jobNo('flute1')} awaits approval`, body: 'Flute Quellstone: the estimate is with the customer; work at Harborline Seattle starts once they approve.', hoursAgo: 26 },
+    { user: 'mateo', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
+    { user: 'tobias', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Incoming transfer from Denver', body: 'A baritone saxophone is on the relay run to Chicago.', hoursAgo: 5 },
+    { user: 'owner', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.', hoursAgo: 5 },
+    { user: 'owner', kind: 'invitation_accepted', link: '/people', title: 'Ingrid Oyelaran accepted your invitation', body: 'Auditor at Harborline Denver', hoursAgo: 24 * 20, read: true },
+    { user: 'manager', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.', hoursAgo: 5, read: true },
+  ];
   await Notification.bulkCreate(
-    [
-      { user: 'desk', kind: 'job_ready' as const, job: jobAt('flute8'), title: 'Job ready for pickup', body: 'Cork & felt replacement on a Quellstone flute is done.' },
-      { user: 'desk', kind: 'estimate_awaiting_approval' as const, job: jobAt('flute1'), title: 'Estimate awaiting approval', body: 'Quillon Park High School has not yet approved the flute repad estimate.' },
-      { user: 'tobias', kind: 'transfer_incoming' as const, job: jobAt('bari2'), title: 'Incoming transfer from Denver', body: 'A baritone saxophone is on the relay run to Chicago.' },
-      { user: 'owner', kind: 'transfer_incoming' as const, job: jobAt('bari2'), title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.' },
-    ].map((n) => ({
-      networkId, userId: userId[n.user], kind: n.kind, title: n.title, body: n.body, link: `/jobs/${n.job.id}`,
-      createdAt: new Date(now.getTime() - 3 * HOUR), dedupeKey: `demo:${n.kind}:${n.user}:${n.job.id}`,
+    notices.map((n) => ({
+      networkId, userId: userId[n.user], kind: n.kind, title: n.title, body: n.body, link: n.link,
+      createdAt: new Date(now.getTime() - n.hoursAgo * HOUR), readAt: n.read ? new Date(now.getTime() - (n.hoursAgo - 1) * HOUR) : null,
+      dedupeKey: `demo:${n.kind}:${n.user}:${n.link}`,
     })),
     t,
   );

@@ -34,6 +34,8 @@ import { MyBenchRoute } from './routes/my-bench';
 import { JobRoute } from './routes/job';
 import { ServiceCatalogRoute } from './routes/service-catalog';
 import { InstrumentPhotosRoute } from './routes/instrument-photos';
+import { InboxRoute } from './routes/inbox';
+import { NotificationSettingsRoute } from './routes/notification-settings';
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [
@@ -249,6 +251,9 @@ export const routes: RouteObject[] = [
               </RequireAbility>
             ),
           },
+          // everyone signed in has an inbox: the server returns only their own notices
+          { path: 'inbox', element: <InboxRoute /> },
+          { path: 'inbox/settings', element: <NotificationSettingsRoute /> },
           { path: '*', element: <NotFoundRoute /> },
         ],
       },

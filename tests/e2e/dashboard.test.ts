@@ -1,37 +1,11 @@
 import fs from 'node:fs';
-import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
+import { describeViolations, seriousViolations } from '../helpers/axe.js';
 import { launchBrowser, startAppServer, signInInBrowser } from '../helpers/browser.js';
 import { closeServerResources } from '../helpers/close.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
-
-const require = createRequire(import.meta.url);
-const AXE_PATH = require.resolve('axe-core/axe.min.js');
-
-interface AxeViolation {
-  id: string;
-  impact: 'minor' | 'moderate' | 'serious' | 'critical' | null;
-  help: string;
-  nodes: Array<{ target: unknown[] }>;
-}
-
-/**
- * Runs axe-core (the npm package, injected into the page) and returns the serious and critical findings.
- * The app's Content-Security-Policy forbids inline scripts, so the test's browser contexts set
- * `bypassCSP` to let the injected checker run; the app's own scripts are unaffected either way.
- */
-async function seriousViolations(page: Page): Promise<AxeViolation[]> {
-  await page.addScriptTag({ path: AXE_PATH });
-  const result = await page.evaluate(async () => {
-    const axe = (window as unknown as { axe: { run: (ctx: Document, opts: object) => Promise<{ violations: AxeViolation[] }> } }).axe;
-    return axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'best-practice'] } });
-  });
-  return result.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-}
-
-const describeViolations = (vs: AxeViolation[]) => vs.map((v) => `${v.id} (${v.impact}): ${v.help} at ${JSON.stringify(v.nodes.slice(0, 3).map((n) => n.target))}`).join('\n');
 
 /** The owner runs the network from the dashboard: overdue → the list → its CSV, and the screens pass axe-core. */
 // a browser, a whole network's figures and three axe-core runs per test: more than the default 30 s on a shared machine

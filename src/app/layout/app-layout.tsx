@@ -3,6 +3,7 @@ import { NavLink, Outlet, useLocation } from 'react-router-dom';
 import { rolesAtShop, describeRoles } from '@/features/session/roles';
 import { SignOutButton } from '@/features/session/components/sign-out-button';
 import { ShopSwitcher } from '@/features/shops/components/shop-switcher';
+import { InboxLink } from '@/features/notifications/components/inbox-link';
 import { useAppAbility } from '@/lib/ability';
 import { cn } from '@/lib/cn';
 import { useCurrentShop, withShop } from '../current-shop';
@@ -41,16 +42,19 @@ export function AppLayout() {
       <header className="border-b border-paper-200 bg-white">
         {/*
           One set of controls for every width: on phones the order utilities put the shop switcher on its
-          own row under the name and fold the navigation and account into the menu; from lg up it is two rows, the navigation on its own.
+          own row under the name and fold the navigation and account into the menu, the inbox staying in
+          sight beside the menu button; from lg up it is two rows, the navigation on its own.
         */}
         <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3 sm:px-6">
           <div className="order-1">
             <Brand to={withShop('/', currentShop?.id)} subtitle={me.network.name} />
           </div>
 
+          <InboxLink to={withShop('/inbox', currentShop?.id)} className="order-2 ml-auto lg:order-4 lg:ml-0" />
+
           <button
             type="button"
-            className="order-2 ml-auto inline-flex min-h-11 items-center gap-2 rounded-lg border border-paper-300 px-4 text-sm font-semibold text-ink-950 hover:bg-paper-50 lg:hidden"
+            className="order-2 inline-flex min-h-11 items-center gap-2 rounded-lg border border-paper-300 px-4 text-sm font-semibold text-ink-950 hover:bg-paper-50 lg:hidden"
             aria-expanded={menuOpen}
             aria-controls={`${menuId}-nav ${menuId}-account`}
             onClick={() => setMenuOpen((open) => !open)}
@@ -106,7 +110,7 @@ export function AppLayout() {
             id={`${menuId}-account`}
             className={cn(
               'order-5 w-full items-center justify-between gap-4 border-t border-paper-200 pt-3',
-              'lg:order-4 lg:ml-auto lg:flex lg:w-auto lg:justify-end lg:border-0 lg:pt-0',
+              'lg:order-5 lg:flex lg:w-auto lg:justify-end lg:border-0 lg:pt-0',
               menuOpen ? 'flex' : 'hidden',
             )}
           >
