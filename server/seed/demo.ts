@@ -907,13 +907,13 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
   const jobNo = (key: string) => numberOf.get(jobAt(key).id)!;
   const notices: Array<{ user: string; kind: NotificationKind; link: string; title: string; body: string; hoursAgo: number; read?: boolean }> = [
-    { user: 'desk', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
-    { user: 'desk', kind: 'estimate_awaiting_approval', link: `/jobs/${jobAt('flute1').id}`, title: `Estimate for job ${jobNo('flute1')} awaits approval`, body: 'Flute Quellstone: the estimate is with the customer; work at Harborline Seattle starts once they approve.', hoursAgo: 26 },
-    { user: 'mateo', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
-    { user: 'tobias', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Incoming transfer from Denver', body: 'A baritone saxophone is on the relay run to Chicago.', hoursAgo: 5 },
-    { user: 'owner', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.', hoursAgo: 5 },
+    { user: 'desk', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}?shop=${shopId.SEA}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
+    { user: 'desk', kind: 'estimate_awaiting_approval', link: `/jobs/${jobAt('flute1').id}?shop=${shopId.SEA}`, title: `Estimate for job ${jobNo('flute1')} awaits approval`, body: 'Flute Quellstone: the estimate is with the customer; work at Harborline Seattle starts once they approve.', hoursAgo: 26 },
+    { user: 'mateo', kind: 'job_ready', link: `/jobs/${jobAt('flute8').id}?shop=${shopId.SEA}`, title: `Job ${jobNo('flute8')} is ready to collect`, body: 'Flute Quellstone passed its final check at Harborline Seattle.', hoursAgo: 3 },
+    { user: 'tobias', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}?shop=${shopId.CHI}`, title: 'Incoming transfer from Denver', body: 'A baritone saxophone is on the relay run to Chicago.', hoursAgo: 5 },
+    { user: 'owner', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}?shop=${shopId.DEN}`, title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.', hoursAgo: 5 },
     { user: 'owner', kind: 'invitation_accepted', link: '/people', title: 'Ingrid Oyelaran accepted your invitation', body: 'Auditor at Harborline Denver', hoursAgo: 24 * 20, read: true },
-    { user: 'manager', kind: 'transfer_incoming', link: `/jobs/${jobAt('bari2').id}`, title: 'Transfer on the road: Denver → Chicago', body: 'Expected to arrive tomorrow.', hoursAgo: 5, read: true },
+    { user: 'manager', kind: 'stock_shortage', link: `/stock?shop=${shopId.SEA}`, title: 'Harborline Seattle is short of 2 parts', body: 'A pad map reserved more pads than the shelf holds; the stock screen shows which shop can spare them.', hoursAgo: 8 },
   ];
   await Notification.bulkCreate(
     notices.map((n) => ({

@@ -153,7 +153,7 @@ describe('notifications inbox and e-mail choices', () => {
     expect(await unread(secondDeskCookie)).toBe(before.second + 1);
     expect(await unread(w.cookies.technician)).toBe(before.tech);
     const inbox = (await get(secondDeskCookie, '/api/notifications').expect(200)).body;
-    expect(inbox.notifications[0]).toMatchObject({ kind: 'job_ready', title: subject, link: `/jobs/${job.id}`, readAt: null });
+    expect(inbox.notifications[0]).toMatchObject({ kind: 'job_ready', title: subject, link: `/jobs/${job.id}?shop=${w.shop.id}`, readAt: null });
 
     // the choices swap: now only the second desk gets the e-mail
     await put(w.cookies.front_desk, false);
@@ -172,7 +172,7 @@ describe('notifications inbox and e-mail choices', () => {
     await request(app).put('/api/notification-preferences').set('Cookie', secondDeskCookie).send({ preferences: [{ kind: 'job_ready', email: false }] }).expect(200);
     const { job } = await makeInstrumentWithJob(w.network.id, w.shop.id, w.people.front_desk.id, { stage: 'intake' });
     await request(app).post(`/api/jobs/${job.id}/stage`).set('Cookie', w.cookies.front_desk).send({ to: 'assessed' }).expect(200);
-    const notices = await Notification.findAll({ where: { networkId: w.network.id, kind: 'estimate_awaiting_approval', link: `/jobs/${job.id}` } });
+    const notices = await Notification.findAll({ where: { networkId: w.network.id, kind: 'estimate_awaiting_approval', link: `/jobs/${job.id}?shop=${w.shop.id}` } });
     expect(notices.map((n) => n.userId)).toEqual([secondDesk.id]);
     expect(notices[0].title).toBe(`Estimate for job ${job.number} awaits approval`);
     // estimate_awaiting_approval is inbox-only until chosen

@@ -61,11 +61,13 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
 
   it('requests with the ranked recommendation, approves, packs, hands over and receives', { timeout: 120_000 }, async () => {
     const page = await browser.newPage();
-    page.setDefaultTimeout(30_000);
     await signInInBrowser(page, app.url, new RegExp(demoPeople[1].name));
+    // after the sign-in, which sets its own default: a loaded machine may need the longer wait
+    page.setDefaultTimeout(30_000);
 
     // Seattle, then Transfers → Request a transfer
     await page.getByLabel('Shop').selectOption(shops.SEA.id);
+    await page.waitForURL((u) => u.searchParams.get('shop') === shops.SEA.id);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Transfers' }).click();
     await page.getByRole('heading', { level: 1, name: 'Transfers' }).waitFor();
     await page.getByRole('link', { name: 'Request a transfer' }).click();

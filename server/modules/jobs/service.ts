@@ -501,7 +501,8 @@ async function noticeFrontDesk(job: Job, stage: 'assessed' | 'ready', eventId: s
       userIds: desk.filter((id) => id !== byUserId),
       title: text.title,
       body: text.body,
-      link: `/jobs/${job.id}`,
+      // the job's own shop: someone at several shops lands on it whatever shop they were looking at
+      link: `/jobs/${job.id}?shop=${job.shopId}`,
       dedupeKey: `${text.kind}:${job.id}:${eventId}`,
       email: { subject: text.title, text: text.body },
       sendAfterCommit: true,
