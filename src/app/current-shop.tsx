@@ -37,14 +37,19 @@ function remember(shopId: string) {
   }
 }
 
-export function CurrentShopProvider({ shops, children }: { shops: SessionShop[]; children: ReactNode }) {
+/**
+ * `ownShopIds`: shops where the person holds a role. A regional manager may read every shop, but with
+ * nothing in the address and nothing remembered the tab opens on one of their own, not the first by name.
+ */
+export function CurrentShopProvider({ shops, ownShopIds = [], children }: { shops: SessionShop[]; ownShopIds?: string[]; children: ReactNode }) {
   const [searchParams, setSearchParams] = useSearchParams();
   const fromUrl = searchParams.get(SHOP_SEARCH_PARAM);
 
   const currentShop = useMemo(() => {
     const byId = (id: string | null) => (id ? shops.find((shop) => shop.id === id) : undefined);
-    return byId(fromUrl) ?? byId(readRemembered()) ?? shops[0];
-  }, [shops, fromUrl]);
+    return byId(fromUrl) ?? byId(readRemembered()) ?? shops.find((shop) => ownShopIds.includes(shop.id)) ?? shops[0];
+    // the ids arrive as a new array on each render; their content is what matters
+  }, [shops, fromUrl, ownShopIds.join(',')]);
 
   useEffect(() => {
     if (!currentShop) return;

@@ -54,7 +54,7 @@ export function SessionGate() {
   return (
     <SessionProvider me={me.data}>
       <AbilityContext ability={ability}>
-        <CurrentShopProvider shops={me.data.shops}>
+        <CurrentShopProvider shops={me.data.shops} ownShopIds={me.data.memberships.map((m) => m.shopId).filter((id): id is string => !!id)}>
           <Outlet />
         </CurrentShopProvider>
       </AbilityContext>

@@ -173,6 +173,20 @@ describe('signed in (200 from /api/me)', () => {
     expect(screen.queryByRole('option', { name: new RegExp(ridgeShop.name) })).not.toBeInTheDocument();
   });
 
+  it('opens on a shop where the person holds a role when they may read others that sort before it', async () => {
+    // a regional manager reads every shop; with nothing in the address or remembered, their own shop comes up
+    renderApp('/', {
+      ...ownerAnswers,
+      'GET /api/me': {
+        status: 200,
+        body: meBody({ memberships: [{ shopId: millShop.id, shopName: millShop.name, role: 'regional_manager' }], shops: [harbourShop, millShop] }),
+      },
+    });
+    const switcher = await screen.findByRole('combobox', { name: 'Shop' });
+    await waitFor(() => expect((switcher as HTMLSelectElement).value).toBe(millShop.id));
+    expect(window.localStorage.getItem(CURRENT_SHOP_STORAGE_KEY)).toBe(millShop.id);
+  });
+
   it('shows the network, the person and each shop with its open jobs and stages', async () => {
     renderApp('/', ownerAnswers);
     const harbour = await screen.findByRole('article', { name: 'Harbour Street Bench' });
