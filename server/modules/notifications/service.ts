@@ -10,6 +10,7 @@ import { notFound } from '../../lib/errors.js';
 import type { Actor } from '../../lib/auth.js';
 import { Membership, Notification, NotificationPreference, OutboxMessage, User } from '../../lib/models.js';
 import { NOTIFICATION_EMAIL_DEFAULTS, NOTIFICATION_KINDS, type NotificationKind, type Role } from '../../../shared/domain.js';
+import type { Inbox, NotificationPreferences } from '../../../shared/notifications.js';
 
 /**
  * Notices: an in-app inbox entry per person and, unless they turned e-mail off for that kind, an e-mail
@@ -260,7 +261,7 @@ export interface InboxQuery {
 }
 
 /** The signed-in person's inbox, newest first, with the count still unread. */
-export async function listInbox(actor: Actor, options: InboxQuery = {}) {
+export async function listInbox(actor: Actor, options: InboxQuery = {}): Promise<Inbox<Date>> {
   const scope = inboxScope(actor);
   if (!scope) return { notifications: [], unread: 0, total: 0 };
   const where = options.unreadOnly ? { ...scope, readAt: null } : scope;
@@ -313,16 +314,8 @@ export async function markAllRead(actor: Actor, upTo?: Date) {
   return { marked, ...(await unreadCount(actor)) };
 }
 
-export interface NotificationChoice {
-  kind: NotificationKind;
-  email: boolean;
-  /** False when the person never chose and the default applies. */
-  chosen: boolean;
-  defaultEmail: boolean;
-}
-
 /** For each kind, whether the person gets it by e-mail too (their choice, or the default). */
-export async function getPreferences(actor: Actor): Promise<{ email: string; preferences: NotificationChoice[] }> {
+export async function getPreferences(actor: Actor): Promise<NotificationPreferences> {
   const [rows, user] = await Promise.all([
     NotificationPreference.findAll({ where: { networkId: actor.networkId, userId: actor.id } }),
     User.findOne({ where: { networkId: actor.networkId, id: actor.id }, attributes: ['email'] }),
