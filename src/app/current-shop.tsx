@@ -1,4 +1,4 @@
-import { createContext, useCallback, useContext, useEffect, useMemo, type ReactNode } from 'react';
+import { createContext, useCallback, useContext, useEffect, useMemo, useRef, type ReactNode } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import type { SessionShop } from '@/features/session/types';
 
@@ -51,8 +51,16 @@ export function CurrentShopProvider({ shops, ownShopIds = [], children }: { shop
     // the ids arrive as a new array on each render; their content is what matters
   }, [shops, fromUrl, ownShopIds.join(',')]);
 
+  // The shop this tab last settled on, read live (a ref, not a render's closure): the effect below may be
+  // one of an earlier render that runs only after the person has already picked another shop.
+  const settled = useRef<string | null>(null);
+
   useEffect(() => {
     if (!currentShop) return;
+    // a stale run (its shop is neither the address's nor the one just picked) must not undo the pick
+    const stale = settled.current && settled.current !== currentShop.id && fromUrl !== currentShop.id;
+    if (stale && shops.some((shop) => shop.id === settled.current)) return;
+    settled.current = currentShop.id;
     remember(currentShop.id);
     if (fromUrl !== currentShop.id) {
       setSearchParams(
@@ -64,11 +72,12 @@ export function CurrentShopProvider({ shops, ownShopIds = [], children }: { shop
         { replace: true },
       );
     }
-  }, [currentShop, fromUrl, setSearchParams]);
+  }, [currentShop, fromUrl, setSearchParams, shops]);
 
   const setCurrentShop = useCallback(
     (shopId: string) => {
       if (!shops.some((shop) => shop.id === shopId)) return;
+      settled.current = shopId;
       remember(shopId);
       setSearchParams((previous) => {
         const next = new URLSearchParams(previous);
