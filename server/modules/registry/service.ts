@@ -25,6 +25,9 @@ import {
   intakeSchema,
   importBatchSchema,
 } from '../../../shared/schemas/registry.js';
+import type { CustomerView, ImportBatchResult, InstrumentHit, IntakeResult, TimelineItem } from '../../../shared/registry.js';
+
+export type { CustomerView, ImportBatchResult, InstrumentHit, IntakeResult, TimelineItem };
 import type { z } from 'zod';
 
 // ---------------------------------------------------------------------------------------------
@@ -96,15 +99,6 @@ async function servedShopsOf(networkId: string, customerIds: string[], transacti
   return new Map(rows.map((r) => [r.customer_id, r.shops]));
 }
 
-export interface CustomerView {
-  id: string;
-  kind: CustomerKind;
-  /** null for a private person whose details this viewer may not see */
-  name: string | null;
-  contactVisible: boolean;
-  contact: { contactName: string | null; email: string | null; phone: string | null; address: string | null; notes: string | null } | null;
-  homeShopId: string | null;
-}
 
 /** The one place a customer is serialised: contact fields leave the server only when `maySeeContact`. */
 function customerView(actor: Actor, c: CustomerRow, served: string[]): CustomerView {
@@ -140,20 +134,6 @@ export function similarityThreshold(length: number): number | null {
 /** Near misses are the fallback: when the literal kinds found this many, or any exact hit, they are enough. */
 const ENOUGH_LITERAL_HITS = 3;
 
-export interface InstrumentHit {
-  id: string;
-  family: InstrumentFamily;
-  maker: string;
-  model: string | null;
-  serial: string;
-  serialNormalized: string;
-  assetTag: string | null;
-  status: InstrumentStatus;
-  currentShop: { id: string; name: string };
-  openJob: { id: string; number: number; stage: JobStage; shopId: string; shopName: string } | null;
-  match: MatchKind | null;
-  score: number;
-}
 
 interface HitRow {
   id: string; family: InstrumentFamily; maker: string; model: string | null; serial: string; serial_normalized: string;
@@ -368,18 +348,6 @@ export async function getInstrument(actor: Actor, id: string) {
   };
 }
 
-export interface TimelineItem {
-  id: string;
-  source: 'history' | 'attachment' | 'pad_map';
-  kind: string;
-  filter: TimelineFilter;
-  at: string;
-  summary: string;
-  shop: { id: string; name: string; timeZone: string } | null;
-  person: string | null;
-  job: { id: string; number: number } | null;
-  data: Record<string, unknown>;
-}
 
 export const TIMELINE_MAX = 1_000;
 
@@ -557,14 +525,6 @@ async function assertNotRegistered(actor: Actor, maker: string, serial: string, 
   }
 }
 
-export interface IntakeResult {
-  job: { id: string; number: number; stage: JobStage; shopId: string };
-  instrument: { id: string; serial: string; maker: string; assetTag: string | null };
-  customerId: string | null;
-  warnings: string[];
-  /** true when this request key had already opened the job (a retry): nothing new was written */
-  replayed: boolean;
-}
 
 /**
  * The front desk's intake in one transaction: the instrument (picked or registered), the customer
@@ -661,10 +621,6 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
 // ---------------------------------------------------------------------------------------------
 // Fleet import
 
-export interface ImportBatchResult {
-  results: ImportRowResult[];
-  counts: Record<'created' | 'updated' | 'unchanged' | 'error', number>;
-}
 
 /**
  * One batch of a fleet file (the client applies the column mapping and sends a few hundred rows at a

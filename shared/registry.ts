@@ -1,0 +1,62 @@
+import type { InstrumentFamily, JobStage } from './domain.js';
+import type { CustomerKind, ImportRowResult, InstrumentStatus, MatchKind, TimelineFilter } from './schemas/registry.js';
+
+/** Shapes of the registry API's answers: built by server/modules/registry/service.ts, read by the client. */
+
+export interface ShopRef {
+  id: string;
+  name: string;
+  timeZone: string;
+}
+
+export interface InstrumentHit {
+  id: string;
+  family: InstrumentFamily;
+  maker: string;
+  model: string | null;
+  serial: string;
+  serialNormalized: string;
+  assetTag: string | null;
+  status: InstrumentStatus;
+  currentShop: { id: string; name: string };
+  openJob: { id: string; number: number; stage: JobStage; shopId: string; shopName: string } | null;
+  match: MatchKind | null;
+  score: number;
+}
+
+export interface CustomerView {
+  id: string;
+  kind: CustomerKind;
+  /** null for a private person whose details this viewer may not see */
+  name: string | null;
+  contactVisible: boolean;
+  contact: { contactName: string | null; email: string | null; phone: string | null; address: string | null; notes: string | null } | null;
+  homeShopId: string | null;
+}
+
+export interface TimelineItem {
+  id: string;
+  source: 'history' | 'attachment' | 'pad_map';
+  kind: string;
+  filter: TimelineFilter;
+  at: string;
+  summary: string;
+  shop: ShopRef | null;
+  person: string | null;
+  job: { id: string; number: number } | null;
+  data: Record<string, unknown>;
+}
+
+export interface IntakeResult {
+  job: { id: string; number: number; stage: JobStage; shopId: string };
+  instrument: { id: string; serial: string; maker: string; assetTag: string | null };
+  customerId: string | null;
+  warnings: string[];
+  /** true when this request key had already opened the job (a retry): nothing new was written */
+  replayed: boolean;
+}
+
+export interface ImportBatchResult {
+  results: ImportRowResult[];
+  counts: Record<'created' | 'updated' | 'unchanged' | 'error', number>;
+}
