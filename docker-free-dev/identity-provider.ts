@@ -6,6 +6,12 @@ import Provider, { type InteractionDetails, type KoaLikeContext } from 'oidc-pro
  * Local OpenID Connect provider for development and tests. It stands in for a company's real
  * identity provider: the app talks to it exactly as it would to a hosted one (discovery, code
  * flow with PKCE, userinfo, RP-initiated logout), but signing in is a pick-a-person page.
+ *
+ * Every account it signs in says `email_verified: true` and has its e-mail address as its subject
+ * (`sub`), unless the free field's testing options say otherwise: *Account subject* signs in as
+ * another account that carries the same address (what an attacker with an account at some provider
+ * would present), and *Report the address as not verified* sends `email_verified: false`.
+ * Tests use both through tests/helpers/sign-in.ts.
  */
 
 export interface IdentityClient {
@@ -36,16 +42,23 @@ export interface RunningIdentityProvider {
 }
 
 const EMAIL = /^[^\s@<>"]+@[^\s@<>"]+\.[^\s@<>"]+$/;
+const SUBJECT = /^[\x21-\x7e]{1,255}$/;
 
 export async function startIdentityProvider(opts: IdentityProviderOptions): Promise<RunningIdentityProvider> {
   const issuer = opts.issuer.replace(/\/+$/, '');
   const accounts = opts.accounts.map((a) => ({ ...a, email: a.email.trim().toLowerCase() }));
 
-  // Addresses typed into the free field are remembered so userinfo can answer for them later;
-  // after a restart an unknown address still works, named after its local part.
-  const profiles = new Map<string, { email: string; name: string }>();
-  for (const a of accounts) profiles.set(a.email, { email: a.email, name: a.name });
-  const profileFor = (sub: string) => profiles.get(sub) ?? { email: sub, name: sub.split('@')[0] };
+  // Accounts by subject. Addresses typed into the free field are remembered so userinfo can answer
+  // for them later; after a restart an unknown subject still works as a verified address, named
+  // after its local part.
+  interface Profile {
+    email: string;
+    name: string;
+    emailVerified: boolean;
+  }
+  const profiles = new Map<string, Profile>();
+  for (const a of accounts) profiles.set(a.email, { email: a.email, name: a.name, emailVerified: true });
+  const profileFor = (sub: string): Profile => profiles.get(sub) ?? { email: sub, name: sub.split('@')[0], emailVerified: true };
 
   const provider = new Provider(issuer, {
     clients: opts.clients.map((c) => ({
@@ -75,7 +88,7 @@ export async function startIdentityProvider(opts: IdentityProviderOptions): Prom
       const profile = profileFor(sub);
       return {
         accountId: sub,
-        claims: async () => ({ sub, email: profile.email, email_verified: true, name: profile.name }),
+        claims: async () => ({ sub, email: profile.email, email_verified: profile.emailVerified, name: profile.name }),
       };
     },
     clientBasedCORS: (_ctx: unknown, origin: string) => isLoopbackOrigin(origin),
@@ -134,10 +147,18 @@ export async function startIdentityProvider(opts: IdentityProviderOptions): Prom
         return sendHtml(res, 400, signInPage(uid, accounts, 'Enter a whole e-mail address, such as someone@benchrelay.test.'));
       }
       const typedName = (form.get('name') ?? '').trim();
-      if (!profiles.has(email) || typedName) {
-        profiles.set(email, { email, name: typedName || profiles.get(email)?.name || email.split('@')[0] });
+      const override = (form.get('subject') ?? '').trim();
+      const subject = override || email;
+      if (override && !SUBJECT.test(override)) {
+        return sendHtml(res, 400, signInPage(uid, accounts, 'An account subject is 1 to 255 visible characters without spaces.'));
       }
-      return finish(req, res, details, email);
+      const known = profiles.get(subject) ?? profiles.get(email);
+      profiles.set(subject, {
+        email,
+        name: typedName || known?.name || email.split('@')[0],
+        emailVerified: form.get('unverified') !== 'yes',
+      });
+      return finish(req, res, details, subject);
     }
 
     res.statusCode = 405;
@@ -225,6 +246,10 @@ const STYLE = `
   input { width: 100%; box-sizing: border-box; padding: 0.45rem 0.55rem; border: 1px solid #c5ccd6; border-radius: 0.3rem; font: inherit; }
   .primary { margin-top: 0.85rem; padding: 0.5rem 0.9rem; border: 0; border-radius: 0.3rem; background: #2f6f9f; color: #fff; font: inherit; font-weight: 600; cursor: pointer; }
   .error { color: #a61b1b; background: #fdecec; padding: 0.5rem 0.75rem; border-radius: 0.3rem; }
+  details { margin-top: 0.75rem; font-size: 0.85rem; }
+  summary { cursor: pointer; color: #52606d; }
+  label.check { display: flex; gap: 0.4rem; align-items: center; }
+  label.check input { width: auto; }
   .badge { display: inline-block; font-size: 0.75rem; text-transform: uppercase; letter-spacing: 0.04em; color: #7b4a00; background: #fff4dc; border-radius: 0.25rem; padding: 0.1rem 0.4rem; margin-bottom: 0.75rem; }
 `;
 
@@ -268,6 +293,12 @@ function signInPage(uid: string, accounts: IdentityAccount[], error?: string) {
         <input id="email" name="email" type="email" required autocomplete="off" placeholder="someone@benchrelay.test">
         <label for="name">Name (optional)</label>
         <input id="name" name="name" type="text" autocomplete="off">
+        <details>
+          <summary>Testing options</summary>
+          <label for="subject">Account subject (empty: the address itself)</label>
+          <input id="subject" name="subject" type="text" autocomplete="off" placeholder="another-account-1">
+          <label class="check"><input name="unverified" type="checkbox" value="yes"> Report the address as not verified</label>
+        </details>
         <button class="primary" type="submit">Sign in with this address</button>
       </fieldset>
     </form>`,

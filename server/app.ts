@@ -3,7 +3,7 @@ import path from 'node:path';
 import express from 'express';
 import helmet from 'helmet';
 import { config } from './config.js';
-import { sessionMiddleware, loadActor } from './lib/auth.js';
+import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { healthReport } from './lib/health.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
@@ -46,6 +46,7 @@ export function buildApp() {
   });
 
   app.use(sessionMiddleware());
+  app.use(sessionLifetime());
   app.use(loadActor(loadActorRecord));
 
   app.use(authRouter);

@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import pg from 'pg';
-import { config } from '../config.js';
+import { config, type Config } from '../config.js';
 import { abilityFor, type AppAbility } from '../../shared/auth/ability.js';
 import type { Role } from '../../shared/domain.js';
 import type { PendingSignIn } from './oidc.js';
@@ -14,10 +14,32 @@ declare module 'express-session' {
     user?: { id: string; networkId: string };
     pendingSignIn?: PendingSignIn;
     idToken?: string;
+    /** Who the identity provider said signed in (kept for accepting an invitation). */
+    identity?: SessionIdentity;
+    /** When the person signed in (ms since the epoch); the session ends SESSION_MAX_AGE_MS later whatever happens. */
+    signedInAt?: number;
+    /** When the session row's expiry was last pushed forward (ms); see sessionLifetime. */
+    touchedAt?: number;
     /** Signed in at the provider, but this e-mail has no role in any shop. */
     noAccessEmail?: string;
   }
 }
+
+/** The identity provider's account behind a session, as checked at the callback. */
+export interface SessionIdentity {
+  issuer: string;
+  subject: string;
+  email: string;
+  name: string;
+  emailVerified: boolean;
+}
+
+/** A session unused this long ends (the session row's `expire`, and the cookie's lifetime). */
+export const SESSION_IDLE_MS = 12 * 60 * 60 * 1000;
+/** A session ends this long after sign-in even while it is used every minute. */
+export const SESSION_MAX_AGE_MS = 7 * 24 * 60 * 60 * 1000;
+/** The session row's expiry is pushed forward at most this often, not on every request. */
+export const SESSION_TOUCH_EVERY_MS = 60 * 1000;
 
 /** Who is asking, resolved freshly on every request so a role change or deactivation applies at once. */
 export interface Actor {
@@ -40,22 +62,63 @@ declare global {
 
 export const sessionPool = new pg.Pool({ connectionString: config.databaseUrl, max: 4 });
 
-export function sessionMiddleware(): RequestHandler {
+/**
+ * Sessions in PostgreSQL. Not rolling, and the store never touches the row by itself (`disableTouch`):
+ * express-session would otherwise rewrite the row on every request. sessionLifetime() pushes the
+ * expiry forward instead, at most once a minute.
+ */
+export function sessionMiddleware(cfg: Config = config): RequestHandler {
   const PgStore = connectPgSimple(session);
   return session({
     name: 'benchrelay.sid',
-    secret: config.sessionSecret,
+    secret: cfg.sessionSecret,
     resave: false,
     saveUninitialized: false,
-    rolling: true,
-    store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+    rolling: false,
+    store: new PgStore({
+      pool: sessionPool,
+      tableName: 'session',
+      createTableIfMissing: false,
+      pruneSessionInterval: 15 * 60,
+      disableTouch: true,
+    }),
     cookie: {
       httpOnly: true,
       sameSite: 'lax',
-      secure: config.appOrigin.startsWith('https://'),
-      maxAge: 12 * 60 * 60 * 1000,
+      secure: cfg.appOrigin.startsWith('https://'),
+      maxAge: SESSION_IDLE_MS,
     },
   });
+}
+
+/** Marks a session as signed in now: the start of its absolute lifetime and of its idle clock. */
+export function startSessionClock(s: { signedInAt?: number; touchedAt?: number }, now = Date.now()) {
+  s.signedInAt = now;
+  s.touchedAt = now;
+}
+
+/**
+ * Ends a signed-in session 7 days after sign-in or 12 hours after its last use, and otherwise keeps it
+ * alive with at most one write a minute. The idle limit is also the row's `expire`, which the store
+ * checks on every read; changing `touchedAt` marks the session modified, so express-session saves it
+ * once (new `expire`, and a fresh cookie lifetime).
+ */
+export function sessionLifetime(): RequestHandler {
+  return async (req, _res, next) => {
+    const s = req.session;
+    if (!s || !(s.user || s.noAccessEmail || s.identity)) return next();
+    const now = Date.now();
+    const signedInAt = typeof s.signedInAt === 'number' ? s.signedInAt : 0;
+    const touchedAt = typeof s.touchedAt === 'number' ? s.touchedAt : 0;
+    // a signed-in session without a sign-in time predates the limit: it ends like an old one
+    if (now - signedInAt > SESSION_MAX_AGE_MS || now - touchedAt > SESSION_IDLE_MS) {
+      // regenerate, not destroy: the old row is deleted and the request goes on with an empty session
+      await new Promise<void>((resolve, reject) => s.regenerate((err) => (err ? reject(err) : resolve())));
+      return next();
+    }
+    if (now - touchedAt >= SESSION_TOUCH_EVERY_MS) s.touchedAt = now;
+    next();
+  };
 }
 
 /** Ends every session of a person (deactivation); their next request is unauthenticated. */

@@ -44,10 +44,22 @@ export async function beginSignIn(returnTo: string): Promise<{ url: string; pend
 }
 
 export interface SignedInIdentity {
+  /** The provider that vouched for this person (the ID token's `iss`, checked by openid-client). */
+  issuer: string;
+  /** The provider's own, stable id of the account (`sub`). Together with `issuer` it names the account. */
   subject: string;
   email: string;
+  /** True only when the provider says it checked that the account holder receives mail at `email`. */
+  emailVerified: boolean;
   name: string;
   idToken?: string;
+}
+
+/** `email_verified` as providers send it: a boolean, or (some older providers) the string "true". */
+function verifiedClaim(value: unknown): boolean | undefined {
+  if (value === true || value === 'true') return true;
+  if (value === false || value === 'false') return false;
+  return undefined;
 }
 
 export async function finishSignIn(callbackUrl: URL, pending: PendingSignIn): Promise<SignedInIdentity> {
@@ -60,14 +72,27 @@ export async function finishSignIn(callbackUrl: URL, pending: PendingSignIn): Pr
   if (!claims) throw new Error('The identity provider returned no ID token.');
   let email = typeof claims.email === 'string' ? claims.email : undefined;
   let name = typeof claims.name === 'string' ? claims.name : undefined;
-  // Providers that keep ID tokens minimal put e-mail and name only in userinfo.
-  if (!email || !name) {
+  let emailVerified = email ? verifiedClaim(claims.email_verified) : undefined;
+  // Providers that keep ID tokens minimal put e-mail, its verification and name only in userinfo.
+  if (!email || !name || emailVerified === undefined) {
     const info = await client.fetchUserInfo(cfg, tokens.access_token, claims.sub);
-    email ??= typeof info.email === 'string' ? info.email : undefined;
+    const infoEmail = typeof info.email === 'string' ? info.email : undefined;
+    if (!email && infoEmail) email = infoEmail;
+    // a verification flag speaks only for the address it came with
+    if (emailVerified === undefined && infoEmail && email && infoEmail.toLowerCase() === email.toLowerCase()) {
+      emailVerified = verifiedClaim(info.email_verified);
+    }
     name ??= typeof info.name === 'string' ? info.name : undefined;
   }
   if (!email) throw new Error('The identity provider did not share an e-mail address.');
-  return { subject: claims.sub, email: email.toLowerCase(), name: name ?? email, idToken: tokens.id_token };
+  return {
+    issuer: claims.iss,
+    subject: claims.sub,
+    email: email.toLowerCase(),
+    emailVerified: emailVerified === true,
+    name: name ?? email,
+    idToken: tokens.id_token,
+  };
 }
 
 export async function signOutUrl(idToken: string | undefined): Promise<string> {

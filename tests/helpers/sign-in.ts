@@ -6,20 +6,32 @@ import type { Express } from 'express';
  * /auth/login redirect, the provider's sign-in page (pick a person by e-mail), the code grant back
  * at /auth/callback. Returns the app's session cookie.
  */
-export async function signIn(app: Express, email: string): Promise<string> {
-  return (await signInFollowing(app, email)).cookie;
+export async function signIn(app: Express, email: string, account: AccountOptions = {}): Promise<string> {
+  return (await signInFollowing(app, email, undefined, account)).cookie;
+}
+
+/**
+ * The stand-in's testing options (docker-free-dev/identity-provider.ts): `subject` signs in as another
+ * account carrying the same address; `unverified` makes the provider say `email_verified: false`.
+ */
+export interface AccountOptions {
+  subject?: string;
+  unverified?: boolean;
+  /** The app cookie the browser already holds (someone signed in who signs in again). */
+  cookie?: string;
 }
 
 /**
  * The same sign-in, starting from `/auth/login?returnTo=…`; also returns where the app sent the
  * browser afterwards (the `returnTo`, or /no-access for an e-mail without a role).
  */
-export async function signInFollowing(app: Express, email: string, returnTo?: string): Promise<{ cookie: string; location: string }> {
+export async function signInFollowing(app: Express, email: string, returnTo?: string, account: AccountOptions = {}): Promise<{ cookie: string; location: string }> {
   const start = await request(app)
     .get('/auth/login')
     .query(returnTo ? { returnTo } : {})
+    .set('Cookie', account.cookie ?? '')
     .expect(302);
-  let appCookie = cookieHeader(start.headers['set-cookie']);
+  let appCookie = cookieHeader(start.headers['set-cookie']) || account.cookie || '';
   const jar = new Map<string, string>(); // the provider's cookies
   let url = new URL(start.headers.location as string);
   let callback: URL | undefined;
@@ -42,7 +54,11 @@ export async function signInFollowing(app: Express, email: string, returnTo?: st
       method: 'POST',
       redirect: 'manual',
       headers: { cookie: jarHeader(jar), 'content-type': 'application/x-www-form-urlencoded' },
-      body: new URLSearchParams({ email }).toString(),
+      body: new URLSearchParams({
+        email,
+        ...(account.subject ? { subject: account.subject } : {}),
+        ...(account.unverified ? { unverified: 'yes' } : {}),
+      }).toString(),
     });
     absorb(jar, post.headers.getSetCookie());
     if (post.status < 300 || post.status >= 400) throw new Error(`sign-in post answered ${post.status}: ${await post.text()}`);

@@ -137,7 +137,37 @@ describe('local identity provider', () => {
       pkceCodeVerifier: codeVerifier,
       expectedState: state,
     });
-    expect(tokens.claims()).toMatchObject({ sub: 'new.invitee@example.test', email: 'new.invitee@example.test', name: 'Noor Invitee' });
+    expect(tokens.claims()).toMatchObject({ sub: 'new.invitee@example.test', email: 'new.invitee@example.test', email_verified: true, name: 'Noor Invitee' });
+  });
+
+  it('testing options: another account (subject) with the same address, and an address reported as not verified', async () => {
+    const person = demoPeople[0];
+    const go = browser();
+    const first = await beginSignIn(go);
+    const other = await go(`${first.interactionPath}/login`, { form: { email: person.email, subject: 'someone-else-42' } });
+    const otherTokens = await client.authorizationCodeGrant(oidc, await followToApp(go, other), {
+      pkceCodeVerifier: first.codeVerifier,
+      expectedState: first.state,
+    });
+    expect(otherTokens.claims()).toMatchObject({ sub: 'someone-else-42', email: person.email, email_verified: true });
+
+    const go2 = browser();
+    const second = await beginSignIn(go2);
+    const unverified = await go2(`${second.interactionPath}/login`, { form: { email: 'unchecked@example.test', unverified: 'yes' } });
+    const unverifiedTokens = await client.authorizationCodeGrant(oidc, await followToApp(go2, unverified), {
+      pkceCodeVerifier: second.codeVerifier,
+      expectedState: second.state,
+    });
+    expect(unverifiedTokens.claims()).toMatchObject({ sub: 'unchecked@example.test', email: 'unchecked@example.test', email_verified: false });
+    const info = await client.fetchUserInfo(oidc, unverifiedTokens.access_token, 'unchecked@example.test');
+    expect(info).toMatchObject({ email: 'unchecked@example.test', email_verified: false });
+
+    // a subject with spaces is not an account id
+    const go3 = browser();
+    const third = await beginSignIn(go3);
+    const bad = await go3(`${third.interactionPath}/login`, { form: { email: person.email, subject: 'two words' } });
+    expect(bad.status).toBe(400);
+    expect(await bad.text()).toContain('An account subject is');
   });
 
   it('refuses an authorization request without PKCE', async () => {

@@ -244,9 +244,12 @@ export async function previewInvitation(token: string): Promise<InvitationPrevie
   };
 }
 
-/** The identity that accepts: the e-mail the identity provider vouched for at sign-in. */
+/** The identity that accepts: the identity provider account of the session, as checked at sign-in. */
 export interface AcceptingIdentity {
+  issuer: string;
+  subject: string;
   email: string;
+  emailVerified: boolean;
   name?: string;
 }
 
@@ -256,11 +259,19 @@ const GONE: Record<Exclude<InvitationStatus, 'pending'>, [string, string]> = {
   expired: ['invitation_expired', 'This invitation has expired. Ask the owner to send it again.'],
 };
 
+const UNVERIFIED = (email: string) =>
+  new AppError(403, 'email_unverified', `Your sign-in provider has not confirmed that ${email} is your address, so this invitation cannot be accepted yet. Confirm the address with your provider, then open the invitation again.`);
+const MISMATCH = (email: string) =>
+  new AppError(403, 'identity_mismatch', `${email} already signs in to this network with a different account. Sign out and sign in with that account, or ask the network's owner.`);
+
 /**
- * Binds the invitation's roles to the signed-in e-mail (which must be the invited one), creating the
- * person if needed, and marks the link used. Returns the session to sign in as.
+ * Binds the invitation's roles to the signed-in account, whose e-mail must be the invited one and
+ * verified by the identity provider, creating the person if needed and binding them to the account
+ * (issuer + subject) as a first sign-in does; a person already bound to another account is refused
+ * (audited, nothing changed). Marks the link used. Returns the session to sign in as.
  */
 export async function acceptInvitation(identity: AcceptingIdentity, token: string): Promise<{ userId: string; networkId: string }> {
+  let refused: { networkId: string; userId: string } | undefined;
   const result = await sequelize.transaction(async (transaction) => {
     const inv = await Invitation.findOne({ where: { tokenHash: hashToken(token) }, transaction, lock: transaction.LOCK.UPDATE });
     if (!inv) throw new AppError(404, 'invitation_not_found', 'This invitation link is not valid. Ask for a new invitation.');
@@ -273,12 +284,30 @@ export async function acceptInvitation(identity: AcceptingIdentity, token: strin
         signedInEmail: email,
       });
     }
+    if (!identity.emailVerified) throw UNVERIFIED(email);
     const networkId = inv.networkId;
     let user = await User.findOne({ where: { networkId, email }, transaction, lock: transaction.LOCK.UPDATE });
+    const boundElsewhere = await User.findOne({
+      where: { networkId, oidcIssuer: identity.issuer, oidcSubject: identity.subject, ...(user ? { id: { [Op.ne]: user.id } } : {}) },
+      attributes: ['id'],
+      transaction,
+    });
+    const boundToOther = user?.oidcSubject != null && (user.oidcSubject !== identity.subject || (user.oidcIssuer != null && user.oidcIssuer !== identity.issuer));
+    if (boundElsewhere || boundToOther) {
+      refused = { networkId, userId: user?.id ?? boundElsewhere!.id };
+      return null;
+    }
     if (!user) {
-      user = await User.create({ networkId, email, name: identity.name?.trim() || email.split('@')[0] }, { transaction });
-    } else if (!user.active) {
-      await user.update({ active: true, deactivatedAt: null }, { transaction });
+      user = await User.create(
+        { networkId, email, name: identity.name?.trim() || email.split('@')[0], oidcIssuer: identity.issuer, oidcSubject: identity.subject },
+        { transaction },
+      );
+    } else {
+      const before = { active: user.active, oidcIssuer: user.oidcIssuer ?? null, oidcSubject: user.oidcSubject ?? null };
+      await user.update({ active: true, deactivatedAt: null, oidcIssuer: identity.issuer, oidcSubject: identity.subject }, { transaction });
+      if (!before.active || before.oidcIssuer !== identity.issuer || before.oidcSubject !== identity.subject) {
+        await audit({ id: user.id, networkId }, before.active ? 'sign_in.bound' : 'user.reactivated', 'User', user.id, before, { active: true, oidcIssuer: identity.issuer, oidcSubject: identity.subject }, transaction);
+      }
     }
     const who = { id: user.id, networkId };
     const names = await shopNames(networkId, inv.roles, transaction);
@@ -317,5 +346,17 @@ export async function acceptInvitation(identity: AcceptingIdentity, token: strin
     );
     return { userId: user.id, networkId };
   });
+  if (!result) {
+    const r = refused!;
+    await audit({ id: null, networkId: r.networkId }, 'sign_in.refused', 'User', r.userId, null, {
+      reason: 'identity_mismatch',
+      via: 'invitation',
+      email: identity.email,
+      issuer: identity.issuer,
+      subject: identity.subject,
+      emailVerified: identity.emailVerified,
+    });
+    throw MISMATCH(identity.email);
+  }
   return result;
 }

@@ -17,6 +17,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare email: string;
   declare name: string;
   declare active: CreationOptional<boolean>;
+  /** The identity provider account this person signs in with, bound at first sign-in (issuer + subject). */
+  declare oidcIssuer: CreationOptional<string | null>;
   declare oidcSubject: CreationOptional<string | null>;
   declare lastSignInAt: CreationOptional<Date | null>;
   declare deactivatedAt: CreationOptional<Date | null>;
@@ -41,6 +43,7 @@ User.init(
     },
     name: { type: DataTypes.TEXT, allowNull: false },
     active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+    oidcIssuer: DataTypes.TEXT,
     oidcSubject: DataTypes.TEXT,
     lastSignInAt: DataTypes.DATE,
     deactivatedAt: DataTypes.DATE,

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { config } from '../../config.js';
-import { actorOf, requireActor } from '../../lib/auth.js';
+import { actorOf, requireActor, startSessionClock } from '../../lib/auth.js';
 import { beginSignIn, finishSignIn, signOutUrl } from '../../lib/oidc.js';
 import { logger } from '../../lib/logger.js';
 import { notFound, unauthenticated } from '../../lib/errors.js';
@@ -36,13 +36,6 @@ import {
   resendInvitation,
   revokeInvitation,
 } from './invitations.js';
-
-declare module 'express-session' {
-  interface SessionData {
-    /** The provider's display name of a signed-in e-mail without a role yet, for an invitation it accepts. */
-    noAccessName?: string;
-  }
-}
 
 /** Where an invitation link sends a person after sign-in, even before they hold any role. */
 const INVITATION_RETURN = /^\/invitations\/[A-Za-z0-9_-]+\/accept$/;
@@ -80,19 +73,28 @@ authRouter.get('/auth/callback', async (req, res) => {
     delete req.session.pendingSignIn;
     return res.redirect('/sign-in?error=failed');
   }
-  const who = await resolveSignIn(identity);
-  // a fresh session id at every sign-in, so a planted cookie can never become a signed-in session
+  const outcome = await resolveSignIn(identity);
+  // a fresh session id at every sign-in, so a planted cookie can never become a signed-in session;
+  // a refused sign-in also leaves whoever was signed in here signed out
   await regenerate(req);
+  if (outcome.kind === 'refused') return res.redirect(`/sign-in?error=${outcome.reason}`);
   req.session.idToken = identity.idToken;
-  if (who) {
-    req.session.user = who;
+  req.session.identity = {
+    issuer: identity.issuer,
+    subject: identity.subject,
+    email: identity.email,
+    name: identity.name,
+    emailVerified: identity.emailVerified,
+  };
+  startSessionClock(req.session);
+  if (outcome.kind === 'member') {
+    req.session.user = { id: outcome.id, networkId: outcome.networkId };
   } else {
     req.session.noAccessEmail = identity.email;
-    req.session.noAccessName = identity.name;
   }
   await save(req);
   // someone accepting an invitation has no role yet: the invitation page finishes the job
-  res.redirect(who || INVITATION_RETURN.test(pending.returnTo) ? pending.returnTo : '/no-access');
+  res.redirect(outcome.kind === 'member' || INVITATION_RETURN.test(pending.returnTo) ? pending.returnTo : '/no-access');
 });
 
 authRouter.post('/auth/logout', async (req, res) => {
@@ -182,20 +184,23 @@ invitationsRouter.get('/api/invitations/preview/:token', async (req, res) => {
 });
 
 /**
- * Accepts with the e-mail the identity provider vouched for: a member's, or that of someone signed in
- * without any role yet (`noAccessEmail`). On success the session becomes that network's member.
+ * Accepts with the identity provider account of this session (a member's, or that of someone signed
+ * in without any role yet): its e-mail must be the invited one and verified by the provider. On
+ * success the session becomes that network's member.
  */
 invitationsRouter.post('/api/invitations/accept', async (req, res) => {
   const { token } = invitationAcceptSchema.parse(req.body);
-  const email = req.actor?.email ?? req.session?.noAccessEmail;
-  if (!email) throw unauthenticated('Sign in with the invited e-mail address to accept.');
-  const name = req.actor?.name ?? req.session.noAccessName;
-  const who = await acceptInvitation({ email, name }, token);
-  // a new session id whenever the session gains rights
-  const idToken = req.session.idToken;
+  const identity = req.session?.identity;
+  if (!identity || !(req.actor || req.session.noAccessEmail)) throw unauthenticated('Sign in with the invited e-mail address to accept.');
+  const who = await acceptInvitation(identity, token);
+  // a new session id whenever the session gains rights; the sign-in time (and so the lifetime) stays
+  const { idToken, signedInAt, touchedAt } = req.session;
   await regenerate(req);
   req.session.user = { id: who.userId, networkId: who.networkId };
   req.session.idToken = idToken;
+  req.session.identity = identity;
+  req.session.signedInAt = signedInAt;
+  req.session.touchedAt = touchedAt;
   await save(req);
   res.json({ accepted: true });
 });

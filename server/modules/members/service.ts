@@ -1,4 +1,4 @@
-import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, QueryTypes, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
 import { AuditLog, Invitation, Network, User, Membership, Shop, Skill, TechnicianSkill } from '../../lib/models.js';
 import { endSessionsOf, type Actor } from '../../lib/auth.js';
@@ -24,13 +24,38 @@ export async function loadActorRecord(userId: string, networkId: string): Promis
   };
 }
 
+/** Why a sign-in was refused; the sign-in page explains each in plain words (`/sign-in?error=…`). */
+export type SignInRefusal = 'identity_mismatch' | 'email_unverified';
+
+export type SignInOutcome =
+  | { kind: 'member'; id: string; networkId: string }
+  | { kind: 'no_access' }
+  | { kind: 'refused'; reason: SignInRefusal };
+
 /**
- * Matches a signed-in identity to a person by e-mail. A person with no active membership
- * anywhere gets `null` and sees the "no access" page.
+ * Matches a signed-in identity provider account to a person. A person is known by the account
+ * (issuer + subject) bound at their first sign-in; the e-mail address only finds a person who has
+ * no account bound yet, and binding needs the provider to vouch for the address (`email_verified`).
+ * Another account that carries a bound person's address is refused and the attempt is audited,
+ * with nothing else changed. A person with no active membership anywhere gets `no_access`.
  */
-export async function resolveSignIn(identity: SignedInIdentity): Promise<{ id: string; networkId: string } | null> {
-  const rows = await sequelize.query<{ id: string; network_id: string }>(
+export async function resolveSignIn(identity: SignedInIdentity): Promise<SignInOutcome> {
+  const known = await sequelize.query<{ id: string; network_id: string }>(
     `select u.id, u.network_id
+       from users u
+      where u.oidc_issuer = :issuer and u.oidc_subject = :subject and u.active
+        and exists (select 1 from memberships m where m.network_id = u.network_id and m.user_id = u.id)
+      order by u.created_at
+      limit 1`,
+    { type: QueryTypes.SELECT, replacements: { issuer: identity.issuer, subject: identity.subject } },
+  );
+  if (known[0]) {
+    await User.update({ lastSignInAt: new Date() }, { where: { id: known[0].id, networkId: known[0].network_id } });
+    return { kind: 'member', id: known[0].id, networkId: known[0].network_id };
+  }
+
+  const byEmail = await sequelize.query<{ id: string; network_id: string; oidc_issuer: string | null; oidc_subject: string | null }>(
+    `select u.id, u.network_id, u.oidc_issuer, u.oidc_subject
        from users u
       where u.email = :email and u.active
         and exists (select 1 from memberships m where m.network_id = u.network_id and m.user_id = u.id)
@@ -38,13 +63,53 @@ export async function resolveSignIn(identity: SignedInIdentity): Promise<{ id: s
       limit 1`,
     { type: QueryTypes.SELECT, replacements: { email: identity.email.toLowerCase() } },
   );
-  const row = rows[0];
-  if (!row) return null;
-  await User.update(
-    { oidcSubject: identity.subject, lastSignInAt: new Date() },
-    { where: { id: row.id, networkId: row.network_id } },
-  );
-  return { id: row.id, networkId: row.network_id };
+  const row = byEmail[0];
+  if (!row) return { kind: 'no_access' };
+  const who = { id: row.id, networkId: row.network_id };
+
+  const refuse = async (reason: SignInRefusal): Promise<SignInOutcome> => {
+    // no actor: whoever holds that account is not (yet) known to be this person
+    await audit({ id: null, networkId: row.network_id }, 'sign_in.refused', 'User', row.id, null, {
+      reason,
+      email: identity.email,
+      issuer: identity.issuer,
+      subject: identity.subject,
+      emailVerified: identity.emailVerified,
+    });
+    return { kind: 'refused', reason };
+  };
+
+  if (row.oidc_subject !== null) {
+    // bound before issuers were stored: the same subject may sign in (and records its issuer), no other
+    if (row.oidc_issuer === null && row.oidc_subject === identity.subject) {
+      const [count] = await User.update(
+        { oidcIssuer: identity.issuer, lastSignInAt: new Date() },
+        { where: { id: row.id, networkId: row.network_id, oidcIssuer: null, oidcSubject: identity.subject } },
+      );
+      if (count === 1) return { kind: 'member', ...who };
+    }
+    return refuse('identity_mismatch');
+  }
+
+  if (!identity.emailVerified) return refuse('email_unverified');
+  try {
+    const bound = await sequelize.transaction(async (transaction) => {
+      // `oidcSubject: null` in the where: of two first sign-ins at once, only one binds
+      const [count] = await User.update(
+        { oidcIssuer: identity.issuer, oidcSubject: identity.subject, lastSignInAt: new Date() },
+        { where: { id: row.id, networkId: row.network_id, oidcSubject: null }, transaction },
+      );
+      if (count !== 1) return false;
+      await audit(who, 'sign_in.bound', 'User', row.id, { oidcIssuer: null, oidcSubject: null }, { oidcIssuer: identity.issuer, oidcSubject: identity.subject }, transaction);
+      return true;
+    });
+    if (!bound) return refuse('identity_mismatch');
+  } catch (err) {
+    // this account is already bound to another person of the network (deactivated, or a changed address)
+    if (err instanceof UniqueConstraintError) return refuse('identity_mismatch');
+    throw err;
+  }
+  return { kind: 'member', ...who };
 }
 
 /** What the client needs to shape its screens: who, where, which shops, and the permission rules. */

@@ -106,7 +106,7 @@ export function AcceptInvitationRoute() {
           <ButtonAnchor href={signInHref(acceptPath(token))} size="lg">
             Sign in to accept
           </ButtonAnchor>
-        ) : code === 'invitation_wrong_email' ? (
+        ) : code === 'invitation_wrong_email' || code === 'identity_mismatch' ? (
           <SignOutButton variant="primary" />
         ) : (
           <ButtonLink to="/" variant="secondary">

@@ -62,11 +62,11 @@ export function SessionGate() {
   );
 }
 
-export function SignInScreen({ returnTo }: { returnTo?: string }) {
+export function SignInScreen({ returnTo, problem }: { returnTo?: string; problem?: string | null }) {
   useDocumentTitle('Sign in');
   return (
     <PublicLayout>
-      <SignInPanel returnTo={returnTo} />
+      <SignInPanel returnTo={returnTo} problem={problem} />
     </PublicLayout>
   );
 }

@@ -127,6 +127,23 @@ describe('signed out (401 from /api/me)', () => {
     expect(await screen.findByRole('link', { name: 'Sign in' })).toHaveAttribute('href', '/auth/login');
   });
 
+  it('/sign-in?error=identity_mismatch says in plain words that another account holds this address', async () => {
+    renderApp('/sign-in?error=identity_mismatch', {
+      'GET /api/me': { status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in first.' } } },
+    });
+    const alert = await screen.findByRole('alert');
+    expect(alert).toHaveTextContent('You were not signed in');
+    expect(alert).toHaveTextContent('signs in to Benchrelay with a different account');
+    expect(screen.getByRole('link', { name: 'Sign in' })).toHaveAttribute('href', '/auth/login');
+  });
+
+  it('/sign-in?error=email_unverified asks to confirm the address with the provider', async () => {
+    renderApp('/sign-in?error=email_unverified', {
+      'GET /api/me': { status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in first.' } } },
+    });
+    expect(await screen.findByRole('alert')).toHaveTextContent('has not confirmed that this e-mail address is yours');
+  });
+
   it('/sign-in sends someone who is already signed in to the app', async () => {
     const { router } = renderApp('/sign-in', ownerAnswers);
     expect(await screen.findByRole('heading', { name: 'Your shops' })).toBeInTheDocument();
