@@ -2,8 +2,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express from 'express';
 import helmet from 'helmet';
-import { config } from './config.js';
+import { config as defaultConfig, type Config } from './config.js';
 import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
+import { sameOriginOnly } from './lib/same-origin.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { healthReport } from './lib/health.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
@@ -19,8 +20,11 @@ import { filesRouter } from './modules/files/routes.js';
 import { transfersRouter } from './modules/transfers/routes.js';
 import { notificationsRouter } from './modules/notifications/routes.js';
 
-/** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
-export function buildApp() {
+/**
+ * Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts.
+ * `config` is the environment's; tests pass another to see how the app is built for production.
+ */
+export function buildApp(config: Config = defaultConfig) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -38,6 +42,8 @@ export function buildApp() {
       },
     }),
   );
+  // before any router: a page of another site cannot make the browser change anything here
+  app.use(sameOriginOnly(config.allowedOrigins));
   app.use(express.json({ limit: '1mb' }));
 
   app.get('/api/health', async (_req, res) => {
@@ -45,7 +51,7 @@ export function buildApp() {
     res.status(report.ok ? 200 : 503).json(report);
   });
 
-  app.use(sessionMiddleware());
+  app.use(sessionMiddleware(config));
   app.use(sessionLifetime());
   app.use(loadActor(loadActorRecord));
 
@@ -55,7 +61,8 @@ export function buildApp() {
   app.use(invitationsRouter);
   app.use(networksRouter);
   app.use(reportsRouter);
-  app.use(devRouter);
+  // the caught-mail API exists only while the local mail catcher is configured (never in production)
+  if (config.mailCatcherDir && !config.production) app.use(devRouter(config.mailCatcherDir));
   app.use(registryRouter);
   app.use(padmapsRouter);
   app.use(stockRouter);

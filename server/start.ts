@@ -1,5 +1,5 @@
 import type { Server } from 'node:http';
-import { config } from './config.js';
+import { config, productionConfigProblem } from './config.js';
 import { buildApp } from './app.js';
 import { migrateUp } from './migrate.js';
 import { sequelize } from './lib/db.js';
@@ -12,14 +12,21 @@ import { loadDemoNetwork } from './seed/demo.js';
 import { scheduleStartupWork, startWorker } from '../workers/processors.js';
 
 /**
- * Listens on config.port after migrating; loads the demo network once unless LOAD_DEMO=false;
- * runs the queue worker in-process on the PostgreSQL backend (EMBEDDED_WORKER=false to opt out).
+ * Listens on config.port after migrating; loads the demo network once (outside production unless
+ * LOAD_DEMO=false, in production only with LOAD_DEMO=true); runs the queue worker in-process on the
+ * PostgreSQL backend (EMBEDDED_WORKER=false to opt out). In production it refuses to start, before
+ * touching the database, while a secret is a development default (productionConfigProblem).
  */
 export async function start() {
+  const problem = productionConfigProblem(process.env);
+  if (problem) {
+    console.error(problem);
+    process.exit(1);
+  }
   installProcessHandlers();
   const applied = await migrateUp();
   if (applied.length) logger.info({ applied }, 'migrations applied');
-  if (process.env.LOAD_DEMO !== 'false') {
+  if (config.loadDemo) {
     const demo = await loadDemoNetwork();
     logger.info(demo.created ? 'demo network loaded' : 'demo network already present');
   }

@@ -2,8 +2,14 @@ import { scheduleStartupWork, startWorker } from './processors.js';
 import { logger } from '../server/lib/logger.js';
 import { closeAppQueue, queueBackendKind } from '../server/lib/queue.js';
 import { installProcessHandlers } from '../server/lib/errors.js';
+import { productionConfigProblem } from '../server/config.js';
 
 /** A worker as its own process (`npm run worker`), for the Redis backend where workers scale out. */
+const problem = productionConfigProblem(process.env);
+if (problem) {
+  console.error(problem);
+  process.exit(1);
+}
 installProcessHandlers();
 const worker = startWorker(Number(process.env.WORKER_CONCURRENCY ?? 8), {
   lockDuration: Number(process.env.WORKER_LOCK_MS) || undefined,

@@ -1,12 +1,15 @@
 import { Router } from 'express';
-import { config } from '../../config.js';
 import { listCaughtMail } from '../../lib/mail.js';
-import { notFound } from '../../lib/errors.js';
 
-/** Development only: the mail the local catcher received, so people can follow invitation and notice links. */
-export const devRouter = Router();
-
-devRouter.get('/api/dev/mail', async (_req, res) => {
-  if (config.production || !config.mailCatcherDir) throw notFound('GET /api/dev/mail');
-  res.json({ messages: await listCaughtMail(config.mailCatcherDir) });
-});
+/**
+ * Development only: the mail the local catcher received, so people can follow invitation and notice
+ * links. server/app.ts mounts it only while the catcher is configured and never in production, so
+ * there the path is simply not found.
+ */
+export function devRouter(mailCatcherDir: string) {
+  const router = Router();
+  router.get('/api/dev/mail', async (_req, res) => {
+    res.json({ messages: await listCaughtMail(mailCatcherDir) });
+  });
+  return router;
+}

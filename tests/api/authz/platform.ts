@@ -6,6 +6,6 @@ const anyone = { owner: SCOPES, regional_manager: SCOPES, front_desk: SCOPES, te
 export const cases: RouteCase[] = [
   // load balancers and monitors call it without a session
   { route: 'GET /api/health', scopeless: true, allow: anyone, build: () => ({ path: '/api/health' }) },
-  // development only (404 in production): the person reading an invitation has no session yet
+  // development only (not registered in production, 404 there): the person reading an invitation has no session yet
   { route: 'GET /api/dev/mail', scopeless: true, allow: anyone, build: () => ({ path: '/api/dev/mail' }) },
 ];
