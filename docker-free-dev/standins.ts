@@ -20,7 +20,7 @@ function portOf(url: string) {
 }
 
 export async function startStandins(cfg: Config = config, log: (line: string) => void = console.log) {
-  if (!cfg.mailCatcherDir) throw new Error('The local stand-ins are for development only (NODE_ENV=production is set).');
+  if (!cfg.mailCatcherDir) throw new Error('The local stand-ins are for development only (NODE_ENV=production is set, or SMTP_HOST is not this machine).');
   const running: Array<{ close(): Promise<void> }> = [];
   const closeAll = async () => {
     await Promise.allSettled(running.splice(0).reverse().map((s) => s.close()));
