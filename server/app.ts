@@ -2,10 +2,11 @@ import fs from 'node:fs';
 import path from 'node:path';
 import express from 'express';
 import helmet from 'helmet';
-import { config } from './config.js';
+import { config, type Config } from './config.js';
 import { sessionMiddleware, loadActor } from './lib/auth.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { healthReport } from './lib/health.js';
+import { rateLimiters } from './lib/rate-limit.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
@@ -19,11 +20,16 @@ import { filesRouter } from './modules/files/routes.js';
 import { transfersRouter } from './modules/transfers/routes.js';
 import { notificationsRouter } from './modules/notifications/routes.js';
 
+export interface AppOptions {
+  /** Defaults to `config.rateLimits`; tests build apps with low limits of their own. */
+  rateLimits?: Config['rateLimits'];
+}
+
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
-export function buildApp() {
+export function buildApp(options: AppOptions = {}) {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -47,6 +53,15 @@ export function buildApp() {
 
   app.use(sessionMiddleware());
   app.use(loadActor(loadActorRecord));
+
+  // after the actor is known: search, imports and uploads count per person, the rest per address
+  const limit = rateLimiters(options.rateLimits ?? config.rateLimits);
+  app.get(['/auth/login', '/auth/callback'], limit.signIn);
+  app.get('/api/invitations/preview/:token', limit.invitations);
+  app.post('/api/invitations/accept', limit.invitations);
+  app.get(['/api/instruments/search', '/api/instruments/serial-check', '/api/customers'], limit.search);
+  app.post('/api/instruments/import', limit.imports);
+  app.post(['/api/jobs/:jobId/attachments', '/api/attachments/:attachmentId/upload-url'], limit.uploads);
 
   app.use(authRouter);
   app.use(meRouter);
