@@ -5,7 +5,7 @@ import helmet from 'helmet';
 import { config, type Config } from './config.js';
 import { sessionMiddleware, loadActor } from './lib/auth.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
-import { healthReport } from './lib/health.js';
+import { cachedHealthReport } from './lib/health.js';
 import { rateLimiters } from './lib/rate-limit.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
@@ -23,6 +23,7 @@ import { notificationsRouter } from './modules/notifications/routes.js';
 export interface AppOptions {
   /** Defaults to `config.rateLimits`; tests build apps with low limits of their own. */
   rateLimits?: Config['rateLimits'];
+  healthCacheMs?: number;
 }
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
@@ -46,8 +47,9 @@ export function buildApp(options: AppOptions = {}) {
   );
   app.use(express.json({ limit: '1mb' }));
 
+  const health = cachedHealthReport(options.healthCacheMs ?? config.healthCacheMs);
   app.get('/api/health', async (_req, res) => {
-    const report = await healthReport();
+    const report = await health();
     res.status(report.ok ? 200 : 503).json(report);
   });
 

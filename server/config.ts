@@ -85,6 +85,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
       /** Counts are shared by every app using the same namespace on the same database. */
       namespace: 'benchrelay',
     },
+    /** How long an anonymous /api/health answer is reused before the parts are checked again. */
+    healthCacheMs: wholeNumber(env, 'HEALTH_CACHE_MS', 5_000, 0),
     logLevel: env.LOG_LEVEL ?? (env.NODE_ENV === 'test' ? 'silent' : 'info'),
   };
 }

@@ -162,6 +162,8 @@ describe('limits from the environment', () => {
     expect(loadConfig({}).rateLimits).toMatchObject({ windowMs: 60_000, signIn: 30, invitations: 20, search: 120, imports: 20, uploads: 60 });
     const set = loadConfig({ RATE_LIMIT_SEARCH: '300', RATE_LIMIT_WINDOW_MS: '30000', RATE_LIMIT_UPLOADS: '5' }).rateLimits;
     expect(set).toMatchObject({ search: 300, windowMs: 30_000, uploads: 5 });
+    expect(loadConfig({}).healthCacheMs).toBe(5_000);
+    expect(loadConfig({ HEALTH_CACHE_MS: '0' }).healthCacheMs).toBe(0);
   });
 
   it('refuses to start on a limit that is not a whole number, naming the variable', () => {
