@@ -6,7 +6,8 @@ import { config as defaultConfig, type Config } from './config.js';
 import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
 import { sameOriginOnly } from './lib/same-origin.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
-import { healthReport } from './lib/health.js';
+import { cachedHealthReport } from './lib/health.js';
+import { rateLimiters } from './lib/rate-limit.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
 import { loadActorRecord } from './modules/members/service.js';
 import { networksRouter } from './modules/networks/routes.js';
@@ -20,14 +21,20 @@ import { filesRouter } from './modules/files/routes.js';
 import { transfersRouter } from './modules/transfers/routes.js';
 import { notificationsRouter } from './modules/notifications/routes.js';
 
-/**
- * Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts.
- * `config` is the environment's; tests pass another to see how the app is built for production.
- */
-export function buildApp(config: Config = defaultConfig) {
+export interface AppOptions {
+  /** The environment's configuration unless given; tests pass another to see how the app is built for production. */
+  config?: Config;
+  /** Defaults to `config.rateLimits`; tests build apps with low limits of their own. */
+  rateLimits?: Config['rateLimits'];
+  healthCacheMs?: number;
+}
+
+/** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
+export function buildApp(options: AppOptions = {}) {
+  const config = options.config ?? defaultConfig;
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -46,14 +53,24 @@ export function buildApp(config: Config = defaultConfig) {
   app.use(sameOriginOnly(config.allowedOrigins));
   app.use(express.json({ limit: '1mb' }));
 
+  const health = cachedHealthReport(options.healthCacheMs ?? config.healthCacheMs);
   app.get('/api/health', async (_req, res) => {
-    const report = await healthReport();
+    const report = await health();
     res.status(report.ok ? 200 : 503).json(report);
   });
 
   app.use(sessionMiddleware(config));
   app.use(sessionLifetime());
   app.use(loadActor(loadActorRecord));
+
+  // after the actor is known: search, imports and uploads count per person, the rest per address
+  const limit = rateLimiters(options.rateLimits ?? config.rateLimits);
+  app.get(['/auth/login', '/auth/callback'], limit.signIn);
+  app.get('/api/invitations/preview/:token', limit.invitations);
+  app.post('/api/invitations/accept', limit.invitations);
+  app.get(['/api/instruments/search', '/api/instruments/serial-check', '/api/customers'], limit.search);
+  app.post('/api/instruments/import', limit.imports);
+  app.post(['/api/jobs/:jobId/attachments', '/api/attachments/:attachmentId/upload-url'], limit.uploads);
 
   app.use(authRouter);
   app.use(meRouter);

@@ -6,6 +6,7 @@ import { sequelize } from './lib/db.js';
 import { logger } from './lib/logger.js';
 import { sessionPool } from './lib/auth.js';
 import { closeAppQueue, queueBackendKind } from './lib/queue.js';
+import { closeRateLimitStores } from './lib/rate-limit.js';
 import { installProcessHandlers } from './lib/errors.js';
 import { ensureBucket } from './lib/storage.js';
 import { loadDemoNetwork } from './seed/demo.js';
@@ -50,6 +51,7 @@ export async function start() {
     await worker?.close().catch(() => undefined);
     await closeAppQueue().catch(() => undefined);
     await sessionPool.end().catch(() => undefined);
+    await closeRateLimitStores();
     await sequelize.close().catch(() => undefined);
     process.exit(0);
   };

@@ -4,6 +4,7 @@ import * as peopleAndInvitations from './0002-people-and-invitations.js';
 import * as partTransfers from './0005-part-transfers.js';
 import * as reportIndexes from './0007-report-indexes.js';
 import * as signInIdentity from './0008-sign-in-identity.js';
+import * as rateLimitStore from './0010-rate-limit-store.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -17,4 +18,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0005-part-transfers', ...partTransfers },
   { name: '0007-report-indexes', ...reportIndexes },
   { name: '0008-sign-in-identity', ...signInIdentity },
+  { name: '0010-rate-limit-store', ...rateLimitStore },
 ];

@@ -124,7 +124,7 @@ describe('cross-site requests', () => {
       ALLOWED_ORIGINS: 'https://desk.bench.example',
     });
     expect(production.allowedOrigins).toEqual(['https://bench.example', 'https://desk.bench.example']);
-    const prodApp = buildApp(production);
+    const prodApp = buildApp({ config: production });
     const refused = await request(prodApp).post('/auth/logout').set('Origin', 'http://localhost:5173');
     expect(refused.status).toBe(403);
     const listed = await request(prodApp).post('/auth/logout').set('Origin', 'https://desk.bench.example').set('Sec-Fetch-Site', 'same-origin');

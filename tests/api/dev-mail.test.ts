@@ -21,7 +21,7 @@ describe('development mail page API', () => {
 
   it('does not exist in an app built with the production configuration, even with the catcher\'s settings', async () => {
     const production = loadConfig({ ...process.env, NODE_ENV: 'production' });
-    const app = buildApp(production);
+    const app = buildApp({ config: production });
     expect(listRoutes(app)).not.toContain('GET /api/dev/mail');
     const res = await request(app).get('/api/dev/mail').expect(404);
     expect(res.body.messages).toBeUndefined();
@@ -29,7 +29,7 @@ describe('development mail page API', () => {
   });
 
   it('does not exist while mail goes to an SMTP server that is not the local catcher', async () => {
-    const app = buildApp(loadConfig({ ...process.env, SMTP_HOST: 'smtp.mail.example' }));
+    const app = buildApp({ config: loadConfig({ ...process.env, SMTP_HOST: 'smtp.mail.example' }) });
     await request(app).get('/api/dev/mail').expect(404);
   });
 });
