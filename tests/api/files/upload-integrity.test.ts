@@ -7,6 +7,7 @@ import { Op } from 'sequelize';
 import { buildApp } from '../../../server/app.js';
 import { Attachment, HistoryEvent } from '../../../server/lib/models.js';
 import { bucket, s3 } from '../../../server/lib/storage.js';
+import { expireUpload, PENDING_UPLOAD_LIFETIME_MS } from '../../../server/modules/files/service.js';
 import { startWorker } from '../../../workers/processors.js';
 import { closeServerResources } from '../../helpers/close.js';
 import { makeInstrumentWithJob, makeUser } from '../../helpers/factories.js';
@@ -108,6 +109,12 @@ describe('uploads cannot be replaced, oversized, confirmed by others or used as 
     const colour = await redAndBlue(thumb);
     expect(colour.r).toBeGreaterThan(180);
     expect(colour.b).toBeLessThan(70);
+
+    // what the late PUT left under the upload key is cleared by the upload's expiry job; the file stays
+    expect((await objectsOf(ticket.attachment.id)).some((k) => k.startsWith('uploads/'))).toBe(true);
+    expect(await expireUpload(w.network.id, ticket.attachment.id, new Date(Date.now() + PENDING_UPLOAD_LIFETIME_MS + 1000))).toEqual({ expired: false });
+    expect((await objectsOf(ticket.attachment.id)).some((k) => k.startsWith('uploads/'))).toBe(false);
+    expect(sha256(await download(w.cookies.front_desk, ticket.attachment.id))).toBe(sha256(confirmed));
   });
 
   it('a document confirmed and then PUT again through its upload link still downloads as confirmed', async () => {
