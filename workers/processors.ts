@@ -32,7 +32,9 @@ export const processors = {
     applyTransferStep(job.data, { afterCommit: () => crashAfterCommitIfAsked('transfer-step', job.data.transferId) }),
   'transfer-arrival-check': async (job: Job<ArrivalCheckData>) => checkTransferArrival(job.data),
   'send-outbox': async (job: Job<SendOutboxData>) => deliverOutbox({ dedupePrefix: job.data?.dedupePrefix }),
-  // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed
+  // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed. Its
+  // decode runs one at a time per process under the pixel limit (server/lib/images.ts), whatever the
+  // worker's concurrency: other jobs keep flowing while a photo is shrunk.
   'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
     makeThumbnail(job.data.networkId, job.data.attachmentId),
   // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed

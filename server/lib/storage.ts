@@ -1,4 +1,6 @@
+import type { Readable } from 'node:stream';
 import {
+  CopyObjectCommand,
   CreateBucketCommand,
   DeleteObjectCommand,
   GetObjectCommand,
@@ -16,7 +18,27 @@ const CHECK_TIMEOUT_MS = 2000;
 export interface ObjectInfo {
   size: number;
   contentType: string | undefined;
+  /** Without quotes. For an object written in one PUT (or copied from one), the MD5 of its bytes. */
+  etag: string | undefined;
 }
+
+/** The object holds more bytes than the reader allowed; nothing past the limit was read. */
+export class ObjectTooLargeError extends Error {
+  constructor(readonly key: string, readonly limit: number) {
+    super(`Object ${key} is larger than ${limit} bytes`);
+    this.name = 'ObjectTooLargeError';
+  }
+}
+
+/** The object is not the version the reader expected (its ETag differs). */
+export class ObjectChangedError extends Error {
+  constructor(readonly key: string) {
+    super(`Object ${key} changed`);
+    this.name = 'ObjectChangedError';
+  }
+}
+
+const unquote = (etag: string | undefined) => etag?.replace(/"/g, '');
 
 /** A storage client bound to one S3 configuration; the module exports one bound to `config.s3`. */
 export function createStorage(s3Config: Config['s3']) {
@@ -42,11 +64,70 @@ export function createStorage(s3Config: Config['s3']) {
     return Buffer.from(await out.Body.transformToByteArray());
   }
 
-  /** Size and type as storage recorded them, or null when there is no such object. */
+  /**
+   * The object's bytes, refusing to read more than `maxBytes` (ObjectTooLargeError) and, with `etag`,
+   * any other version of it (ObjectChangedError). Storage is asked for that version with If-Match and
+   * the answer's ETag is checked again, since not every S3-compatible server honours the condition.
+   */
+  async function getObjectCapped(key: string, maxBytes: number, opts: { etag?: string } = {}): Promise<{ body: Buffer; etag: string | undefined }> {
+    const expected = unquote(opts.etag);
+    let out;
+    try {
+      out = await s3.send(new GetObjectCommand({ Bucket: bucket, Key: key, ...(expected ? { IfMatch: `"${expected}"` } : {}) }));
+    } catch (err) {
+      if (err instanceof S3ServiceException && (err.name === 'PreconditionFailed' || err.$metadata.httpStatusCode === 412)) {
+        throw new ObjectChangedError(key);
+      }
+      throw err;
+    }
+    const stream = out.Body as Readable | undefined;
+    if (!stream) throw new Error(`Object ${key} has no body`);
+    try {
+      if (expected && unquote(out.ETag) !== expected) throw new ObjectChangedError(key);
+      if ((out.ContentLength ?? 0) > maxBytes) throw new ObjectTooLargeError(key, maxBytes);
+      const chunks: Buffer[] = [];
+      let total = 0;
+      for await (const chunk of stream) {
+        total += (chunk as Buffer).length;
+        // a server may send more than its Content-Length said, or none at all
+        if (total > maxBytes) throw new ObjectTooLargeError(key, maxBytes);
+        chunks.push(chunk as Buffer);
+      }
+      return { body: Buffer.concat(chunks, total), etag: unquote(out.ETag) };
+    } finally {
+      // stops the transfer of whatever was not read
+      stream.destroy();
+    }
+  }
+
+  /**
+   * Server-side copy. With `ifMatch`, storage copies only that version of the source; callers check
+   * the copy's HeadObject as well, since not every S3-compatible server honours the condition.
+   */
+  async function copyObject(fromKey: string, toKey: string, opts: { ifMatch?: string } = {}) {
+    const expected = unquote(opts.ifMatch);
+    try {
+      await s3.send(
+        new CopyObjectCommand({
+          Bucket: bucket,
+          Key: toKey,
+          CopySource: `${bucket}/${fromKey.split('/').map(encodeURIComponent).join('/')}`,
+          ...(expected ? { CopySourceIfMatch: `"${expected}"` } : {}),
+        }),
+      );
+    } catch (err) {
+      if (err instanceof S3ServiceException && (err.name === 'PreconditionFailed' || err.$metadata.httpStatusCode === 412)) {
+        throw new ObjectChangedError(fromKey);
+      }
+      throw err;
+    }
+  }
+
+  /** Size, type and ETag as storage recorded them, or null when there is no such object. */
   async function headObject(key: string): Promise<ObjectInfo | null> {
     try {
       const out = await s3.send(new HeadObjectCommand({ Bucket: bucket, Key: key }));
-      return { size: out.ContentLength ?? 0, contentType: out.ContentType };
+      return { size: out.ContentLength ?? 0, contentType: out.ContentType, etag: unquote(out.ETag) };
     } catch (err) {
       if (isNotFound(err)) return null;
       throw err;
@@ -88,7 +169,10 @@ export function createStorage(s3Config: Config['s3']) {
     }
   }
 
-  return { s3, bucket, ensureBucket, putObject, getObjectBuffer, headObject, deleteObject, presignPut, presignGet, checkStorage };
+  return {
+    s3, bucket, ensureBucket, putObject, getObjectBuffer, getObjectCapped, copyObject, headObject, deleteObject, presignPut, presignGet,
+    checkStorage,
+  };
 }
 
 function isNotFound(err: unknown) {
@@ -104,6 +188,8 @@ export const bucket = storage.bucket;
 export const ensureBucket = storage.ensureBucket;
 export const putObject = storage.putObject;
 export const getObjectBuffer = storage.getObjectBuffer;
+export const getObjectCapped = storage.getObjectCapped;
+export const copyObject = storage.copyObject;
 export const headObject = storage.headObject;
 export const deleteObject = storage.deleteObject;
 export const presignPut = storage.presignPut;

@@ -5,6 +5,7 @@ import * as partTransfers from './0005-part-transfers.js';
 import * as reportIndexes from './0007-report-indexes.js';
 import * as signInIdentity from './0008-sign-in-identity.js';
 import * as rateLimitStore from './0010-rate-limit-store.js';
+import * as attachmentEtag from './0009-attachment-etag.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -18,5 +19,6 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0005-part-transfers', ...partTransfers },
   { name: '0007-report-indexes', ...reportIndexes },
   { name: '0008-sign-in-identity', ...signInIdentity },
+  { name: '0009-attachment-etag', ...attachmentEtag },
   { name: '0010-rate-limit-store', ...rateLimitStore },
 ];

@@ -11,7 +11,9 @@ import type { Role } from '../domain.js';
  */
 export type Action =
   | 'manage' | 'create' | 'read' | 'update' | 'delete'
-  | 'request' | 'approve' | 'pack' | 'receive' | 'move_stage' | 'export';
+  | 'request' | 'approve' | 'pack' | 'receive' | 'move_stage' | 'export'
+  // an upload becomes a stored file: its uploader does it, or a manager of the shop (through manage)
+  | 'confirm';
 
 export type SubjectName =
   | 'Network' | 'Shop' | 'Membership' | 'Invitation' | 'AuditLog' | 'ServiceCatalog'
@@ -83,6 +85,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: desk } });
     can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: desk } });
     can(['create'], 'Attachment', { shopId: { $in: desk } });
+    can('confirm', 'Attachment', { shopId: { $in: desk }, uploadedByUserId: user.id });
     // a wrong photo taken at intake can be taken back by whoever took it
     can('delete', 'Attachment', { shopId: { $in: desk }, uploadedByUserId: user.id });
     can('request', 'Transfer', { fromShopId: { $in: desk } });
@@ -100,6 +103,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
     can(['update', 'move_stage'], 'Job', { shopId: { $in: bench } });
     can(['create', 'update', 'delete'], ['Attachment', 'PadMap'], { shopId: { $in: bench } });
+    can('confirm', 'Attachment', { shopId: { $in: bench }, uploadedByUserId: user.id });
     can('read', 'Stock', { shopId: { $in: bench } });
     // a saved pad map can leave the bench short: technicians ask another shop for parts and take them in
     can(['request', 'receive'], 'Stock', { shopId: { $in: bench } });

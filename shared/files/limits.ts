@@ -14,6 +14,12 @@ export type DocumentType = (typeof DOCUMENT_TYPES)[number];
 export const MB = 1024 * 1024;
 export const PHOTO_MAX_BYTES = 15 * MB;
 export const DOCUMENT_MAX_BYTES = 25 * MB;
+/**
+ * The largest picture the server will decode (width × height). A PNG of a single colour compresses
+ * about a thousandfold, so a file well under the byte limit can still unpack to gigabytes; the pixel
+ * count is what bounds the memory a decode takes. 40 MP is above what phones save by default.
+ */
+export const PHOTO_MAX_PIXELS = 40_000_000;
 
 export const PHOTO_TAGS = ['before', 'after', 'detail'] as const;
 export type PhotoTag = (typeof PHOTO_TAGS)[number];

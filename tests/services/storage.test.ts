@@ -1,5 +1,5 @@
 import { TEST_PORTS, TEST_DATA_DIR } from '../helpers/test-env.js';
-import { randomBytes } from 'node:crypto';
+import { createHash, randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
@@ -17,6 +17,8 @@ const APP_ORIGIN = 'http://localhost:3110';
 type Storage = typeof import('../../server/lib/storage.js');
 let storage: Storage;
 let server: { close(): Promise<void> } | undefined;
+/** S3's ETag of an object written in one PUT is the MD5 of its bytes (Amazon S3 API reference, "ETag"). */
+const md5 = (b: Buffer | string) => createHash('md5').update(b).digest('hex');
 
 async function freePort(): Promise<number> {
   const probe = net.createServer();
@@ -51,7 +53,7 @@ describe('server/lib/storage against the local S3 server', () => {
 
     const back = await storage.getObjectBuffer('photos/intake-1.jpg');
     expect(back.equals(body)).toBe(true);
-    expect(await storage.headObject('photos/intake-1.jpg')).toEqual({ size: body.length, contentType: 'image/jpeg' });
+    expect(await storage.headObject('photos/intake-1.jpg')).toEqual({ size: body.length, contentType: 'image/jpeg', etag: md5(body) });
   });
 
   it('reports a missing object as null', async () => {
@@ -71,7 +73,7 @@ describe('server/lib/storage against the local S3 server', () => {
     expect(put.headers.get('access-control-expose-headers')).toContain('ETag');
 
     expect((await storage.getObjectBuffer('documents/estimate.pdf')).equals(body)).toBe(true);
-    expect(await storage.headObject('documents/estimate.pdf')).toEqual({ size: body.length, contentType: 'application/pdf' });
+    expect(await storage.headObject('documents/estimate.pdf')).toEqual({ size: body.length, contentType: 'application/pdf', etag: md5(body) });
 
     const get = await fetch(await storage.presignGet('documents/estimate.pdf'));
     expect(get.status).toBe(200);
@@ -96,6 +98,29 @@ describe('server/lib/storage against the local S3 server', () => {
     expect(foreign.headers.get('access-control-allow-origin')).toBeNull();
   });
 
+  it('reads an object only up to a byte limit, and only in the version asked for', async () => {
+    const body = randomBytes(300_000);
+    await storage.putObject('photos/capped.jpg', body, 'image/jpeg');
+    const whole = await storage.getObjectCapped('photos/capped.jpg', body.length);
+    expect(whole.body.equals(body)).toBe(true);
+    expect(whole.etag).toBe(md5(body));
+    await expect(storage.getObjectCapped('photos/capped.jpg', body.length - 1)).rejects.toBeInstanceOf(storage.ObjectTooLargeError);
+    await expect(storage.getObjectCapped('photos/capped.jpg', 1024)).rejects.toThrow(/larger than 1024 bytes/);
+    expect((await storage.getObjectCapped('photos/capped.jpg', body.length, { etag: md5(body) })).body.equals(body)).toBe(true);
+
+    // replaced behind the reader's back: the version it was told to expect is gone
+    await storage.putObject('photos/capped.jpg', randomBytes(1000), 'image/jpeg');
+    await expect(storage.getObjectCapped('photos/capped.jpg', body.length, { etag: md5(body) })).rejects.toBeInstanceOf(storage.ObjectChangedError);
+  });
+
+  it('copies an object on the server, bytes, type and ETag', async () => {
+    const body = randomBytes(20_000);
+    await storage.putObject('uploads/estimate-2.pdf', body, 'application/pdf');
+    await storage.copyObject('uploads/estimate-2.pdf', 'documents/estimate-2.pdf', { ifMatch: md5(body) });
+    expect(await storage.headObject('documents/estimate-2.pdf')).toEqual({ size: body.length, contentType: 'application/pdf', etag: md5(body) });
+    expect((await storage.getObjectBuffer('documents/estimate-2.pdf')).equals(body)).toBe(true);
+  });
+
   it('deletes an object', async () => {
     await storage.putObject('photos/to-delete.png', Buffer.from('not really a png'), 'image/png');
     expect(await storage.headObject('photos/to-delete.png')).not.toBeNull();
@@ -111,7 +136,7 @@ describe('server/lib/storage against the local S3 server', () => {
       expect(await other.checkStorage()).toBe(true);
       await other.putObject('kept.txt', 'kept', 'text/plain');
       await other.ensureBucket();
-      expect(await other.headObject('kept.txt')).toEqual({ size: 4, contentType: 'text/plain' });
+      expect(await other.headObject('kept.txt')).toEqual({ size: 4, contentType: 'text/plain', etag: md5('kept') });
     } finally {
       other.s3.destroy();
     }

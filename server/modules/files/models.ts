@@ -16,8 +16,9 @@ export const ATTACHMENT_STATUSES = ['pending', 'stored', 'failed'] as const;
 export type AttachmentStatus = (typeof ATTACHMENT_STATUSES)[number];
 
 /**
- * A photo or document in object storage. The row is written `pending` before the browser uploads,
- * and becomes `stored` only after the server has checked the object (size, type).
+ * A photo or document in object storage. The row is written `pending` before the browser uploads
+ * (to an upload key, see service.ts), and becomes `stored` only after the server has checked the
+ * object (size, type, pixels) and written it to `objectKey`, which no upload link reaches.
  */
 export class Attachment extends Model<InferAttributes<Attachment>, InferCreationAttributes<Attachment>> {
   declare id: CreationOptional<string>;
@@ -33,7 +34,10 @@ export class Attachment extends Model<InferAttributes<Attachment>, InferCreation
   declare objectKey: string;
   declare thumbnailKey: CreationOptional<string | null>;
   declare contentType: string;
+  /** Announced by the browser while pending; the stored object's size once confirmed. */
   declare sizeBytes: number;
+  /** The stored object's ETag, recorded at confirm (null for rows stored before it was kept). */
+  declare etag: CreationOptional<string | null>;
   declare status: CreationOptional<AttachmentStatus>;
   declare uploadedByUserId: string;
   declare createdAt: CreationOptional<Date>;
@@ -54,6 +58,7 @@ Attachment.init(
     thumbnailKey: DataTypes.TEXT,
     contentType: { type: DataTypes.TEXT, allowNull: false },
     sizeBytes: bigintColumn('sizeBytes'),
+    etag: DataTypes.TEXT,
     status: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'pending', validate: oneOf(ATTACHMENT_STATUSES) },
     uploadedByUserId: refColumn(),
     createdAt: DataTypes.DATE,

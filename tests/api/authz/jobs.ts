@@ -38,7 +38,8 @@ async function freshAttachment(world: World, scope: Scope, uploadedByUserId: str
   const networkId = networkOf(world, scope);
   const objectKey = objectKeyFor({ networkId, jobId: job.id, id, kind: 'document', contentType: 'application/pdf' });
   const pdf = Buffer.from(`%PDF-1.4\n% purchase order ${uniq()}\n%%EOF\n`);
-  await putObject(objectKey, pdf, 'application/pdf');
+  // a pending upload sits where the browser's link wrote it; a stored file under its own key
+  await putObject(status === 'pending' ? `uploads/${objectKey}` : objectKey, pdf, 'application/pdf');
   return Attachment.create({
     id, networkId, jobId: job.id, instrumentId: job.instrumentId, shopId: job.shopId, kind: 'document',
     objectKey, contentType: 'application/pdf', sizeBytes: pdf.length, status, uploadedByUserId,
@@ -173,6 +174,7 @@ export const cases: RouteCase[] = [
     allow: workJobs,
   },
   {
+    // the caller's own upload; a colleague's is refused (tests/api/files/upload-integrity.test.ts)
     route: 'POST /api/attachments/:attachmentId/confirm',
     build: async ({ world, scope, who }) => ({
       path: `/api/attachments/${(await freshAttachment(world, scope, actorOrOpener(world, scope, who), 'pending')).id}/confirm`,

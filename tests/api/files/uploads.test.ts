@@ -39,6 +39,9 @@ describe('photos and documents through presigned uploads', () => {
     fetch(ticket.upload.url, { method: 'PUT', headers: { 'Content-Type': contentType }, body: new Uint8Array(bytes) });
   const confirm = (cookie: string, id: string) => request(app).post(`/api/attachments/${id}/confirm`).set('Cookie', cookie);
   const keyOf = async (id: string) => (await Attachment.findOne({ where: { id } }))!.objectKey;
+  /** Where the browser's link writes: a key of its own, apart from the stored file. */
+  const uploadKeyOf = async (id: string) => `uploads/${await keyOf(id)}`;
+  const goneFromStorage = async (id: string) => (await headObject(await keyOf(id))) === null && (await headObject(await uploadKeyOf(id))) === null;
   const listKeys = async (prefix: string) =>
     ((await s3.send(new ListObjectsV2Command({ Bucket: bucket, Prefix: prefix }))).Contents ?? []).map((o) => o.Key);
 
@@ -63,6 +66,8 @@ describe('photos and documents through presigned uploads', () => {
     const key = await keyOf(ticket.attachment.id);
     expect(key).toBe(`networks/${w.network.id}/jobs/${jobId}/${ticket.attachment.id}/photo.jpg`);
     expect(new URL(ticket.upload.url).origin).toBe(process.env.S3_ENDPOINT);
+    // the link writes the upload key only; the stored file's key is out of its reach
+    expect(new URL(ticket.upload.url).pathname).toBe(`/${bucket}/uploads/${key}`);
 
     expect((await put(ticket, original)).status).toBe(200);
     const done = await confirm(w.cookies.technician, ticket.attachment.id).expect(200);
@@ -104,12 +109,11 @@ describe('photos and documents through presigned uploads', () => {
     const small = await begin(w.cookies.technician, { kind: 'photo', tag: 'after', contentType: 'image/jpeg', size: 1000 }).expect(201);
     const ticket = small.body as UploadTicket;
     expect((await put(ticket, Buffer.alloc(PHOTO_MAX_BYTES + 1024, 7))).status).toBe(200);
-    const key = await keyOf(ticket.attachment.id);
-    expect(await headObject(key)).not.toBeNull();
+    expect(await headObject(await uploadKeyOf(ticket.attachment.id))).not.toBeNull();
     const refused = await confirm(w.cookies.technician, ticket.attachment.id).expect(422);
     expect(refused.body.error).toMatchObject({ code: 'upload_refused' });
     expect(refused.body.error.message).toMatch(/at most 15 MB/);
-    expect(await headObject(key)).toBeNull();
+    expect(await goneFromStorage(ticket.attachment.id)).toBe(true);
     expect((await Attachment.findOne({ where: { id: ticket.attachment.id } }))!.status).toBe('failed');
   });
 
@@ -121,24 +125,22 @@ describe('photos and documents through presigned uploads', () => {
     const html = Buffer.from('<html>not a photo</html>');
     const t1 = (await begin(w.cookies.technician, { kind: 'photo', tag: 'detail', contentType: 'image/png', size: html.length }).expect(201)).body as UploadTicket;
     await put(t1, html, 'text/html');
-    const k1 = await keyOf(t1.attachment.id);
     expect((await confirm(w.cookies.technician, t1.attachment.id).expect(422)).body.error.message).toMatch(/JPEG, PNG or WebP/);
-    expect(await headObject(k1)).toBeNull();
+    expect(await goneFromStorage(t1.attachment.id)).toBe(true);
 
     // right header, wrong bytes: a PDF posing as a JPEG
     const pdf = Buffer.from('%PDF-1.7\n1 0 obj << >> endobj\ntrailer << >>\n%%EOF\n');
     const t2 = (await begin(w.cookies.technician, { kind: 'photo', tag: 'detail', contentType: 'image/jpeg', size: pdf.length }).expect(201)).body as UploadTicket;
     await put(t2, pdf);
-    const k2 = await keyOf(t2.attachment.id);
     expect((await confirm(w.cookies.technician, t2.attachment.id).expect(422)).body.error.message).toMatch(/not the photo type/);
-    expect(await headObject(k2)).toBeNull();
+    expect(await goneFromStorage(t2.attachment.id)).toBe(true);
 
     // a "PDF" that is a photo
     const jpeg = await photoWithLocation({ width: 40, height: 30 });
     const t3 = (await begin(w.cookies.front_desk, { kind: 'document', caption: 'Purchase order', contentType: 'application/pdf', size: jpeg.length }).expect(201)).body as UploadTicket;
     await put(t3, jpeg);
     expect((await confirm(w.cookies.front_desk, t3.attachment.id).expect(422)).body.error.message).toMatch(/not a PDF/);
-    expect(await headObject(await keyOf(t3.attachment.id))).toBeNull();
+    expect(await goneFromStorage(t3.attachment.id)).toBe(true);
   });
 
   it('refuses a confirm for another network’s upload, changes nothing, and lets the owner confirm it after', async () => {
@@ -180,7 +182,8 @@ describe('photos and documents through presigned uploads', () => {
 
     const abandoned = (await begin(w.cookies.technician, { kind: 'photo', tag: 'detail', contentType: 'image/jpeg', size: photo.length }).expect(201)).body as UploadTicket;
     await put(abandoned, photo);
-    const key = await keyOf(abandoned.attachment.id);
+    const key = await uploadKeyOf(abandoned.attachment.id);
+    expect(await headObject(key)).not.toBeNull();
     expect(await expireUpload(w.network.id, abandoned.attachment.id)).toEqual({ expired: false }); // still within its time
     const later = new Date(Date.now() + PENDING_UPLOAD_LIFETIME_MS + 1000);
     expect(await expireUpload(w.network.id, abandoned.attachment.id, later)).toEqual({ expired: true });

@@ -101,6 +101,23 @@ describe('roles and permissions (shared/auth/ability.ts)', () => {
     expect(a.can('read', at(HOME).run)).toBe(true);
   });
 
+  it('an upload is confirmed by its uploader or a manager of the shop, nobody else', () => {
+    const upload = (shopId: string, uploadedByUserId: string) => rec('Attachment', { shopId, uploadedByUserId });
+    const mine = upload(HOME, 'user-1');
+    const colleagues = upload(HOME, 'user-2');
+    for (const role of ['technician', 'front_desk'] as const) {
+      const a = as({ shopId: HOME, role });
+      expect(a.can('confirm', mine)).toBe(true);
+      expect(a.can('confirm', colleagues)).toBe(false);
+      expect(a.can('confirm', upload(AWAY, 'user-1'))).toBe(false);
+    }
+    const manager = as({ shopId: HOME, role: 'regional_manager' });
+    expect(manager.can('confirm', colleagues)).toBe(true);
+    expect(manager.can('confirm', upload(AWAY, 'user-2'))).toBe(false);
+    expect(as({ shopId: null, role: 'owner' }).can('confirm', upload(AWAY, 'user-2'))).toBe(true);
+    expect(as({ shopId: HOME, role: 'auditor' }).can('confirm', mine)).toBe(false);
+  });
+
   it('the rules survive the trip to the client as JSON', () => {
     const rules = defineRulesFor({ id: 'u', memberships: [{ shopId: HOME, role: 'front_desk' }] });
     const client = buildAbility(JSON.parse(JSON.stringify(rules)));
