@@ -338,18 +338,26 @@ export async function dashboard(actor: Actor, shopId?: string): Promise<Dashboar
 // ---------------------------------------------------------------------------------------------
 // lists behind the figures
 
-export async function overdueList(actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<OverdueJob>> {
-  const scope = await reportScope(actor, shopId);
+type ReportAction = 'read' | 'export';
+
+export async function overdueList(
+  actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<OverdueJob>> {
+  const scope = await reportScope(actor, shopId, action);
   return { shops: scope.shops, ...(await overdueJobs(scope, limit)) };
 }
 
-export async function transferList(actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<TransferInFlight> & { late: number }> {
-  const scope = await reportScope(actor, shopId);
+export async function transferList(
+  actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<TransferInFlight> & { late: number }> {
+  const scope = await reportScope(actor, shopId, action);
   return { shops: scope.shops, ...(await transfersInFlight(scope, limit)) };
 }
 
-export async function jobList(actor: Actor, query: JobListQuery, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<ReportJob>> {
-  const scope = await reportScope(actor, query.shop);
+export async function jobList(
+  actor: Actor, query: JobListQuery, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<ReportJob>> {
+  const scope = await reportScope(actor, query.shop, action);
   const where: string[] = ['j.network_id = :networkId', 'j.shop_id in (:shopIds)'];
   const stage = query.stage ?? (query.skill ? 'bench' : undefined);
   if (stage === 'open') where.push(`j.stage <> 'released'`);

@@ -160,6 +160,16 @@ describe('lists behind the figures', () => {
     expect(screen.getByRole('link', { name: /Download CSV/ })).toHaveAttribute('href', `/api/reports/overdue.csv?shop=${fen.id}`);
   });
 
+  it('someone who reads the figures but may not export them sees the list without a CSV link', async () => {
+    const readOnly = [{ action: 'read', subject: 'Report', conditions: { shopId: { $in: [fen.id, quay.id] } } }];
+    renderAt(`/reports/overdue?scope=${fen.id}`, {
+      'GET /api/me': { status: 200, body: me(readOnly, 'technician') },
+      'GET /api/reports/overdue': { status: 200, body: { shops: [reportShop(fen, 'FEN')], total: 0, items: [] } },
+    });
+    expect(await screen.findByRole('heading', { name: 'Nothing overdue' })).toBeInTheDocument();
+    expect(screen.queryByRole('link', { name: /Download CSV/ })).toBeNull();
+  });
+
   it('the jobs list says which figure it is behind and offers the same rows as CSV', async () => {
     renderAt(`/reports/jobs?scope=${fen.id}&stage=on_bench`, {
       'GET /api/me': { status: 200, body: me(managerRules) },
