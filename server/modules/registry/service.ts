@@ -482,15 +482,23 @@ export async function createCustomer(actor: Actor, input: z.output<typeof custom
   });
 }
 
-/** A customer the person may attach to a job or an instrument: one they can look up, or the instrument's owner on record. */
-async function loadUsableCustomer(actor: Actor, id: string, ownerOnRecord: string | null, transaction?: Transaction): Promise<Customer> {
+/**
+ * A customer the person may attach to a job or an instrument: one they can already look up (read on
+ * `Customer` for the customer's home shop or a shop that served them, the rule of the customer search).
+ * Being the owner on record of a picked instrument is not enough: a job at the person's shop makes that
+ * shop a serving shop, which would open the customer's contact to it. Anyone else is "not found".
+ */
+async function loadUsableCustomer(actor: Actor, id: string, transaction?: Transaction): Promise<Customer> {
+  const refused = () =>
+    new AppError(404, 'not_found', 'That customer was not found among your shops’ customers.', {
+      customer: 'Pick a customer of your shops, or add the customer here.',
+    });
   const customer = await Customer.findOne({ where: { networkId: actor.networkId, id }, transaction });
-  if (!customer) throw notFound('That customer');
-  if (customer.id === ownerOnRecord) return customer;
+  if (!customer) throw refused();
   const served = (await servedShopsOf(actor.networkId, [customer.id], transaction)).get(customer.id) ?? [];
   const shops = new Set([customer.homeShopId, ...served]);
   const usable = [...shops].some((shopId) => actor.ability.can('read', asSubject('Customer', { homeShopId: shopId }) as never));
-  if (!usable) throw notFound('That customer');
+  if (!usable) throw refused();
   return customer;
 }
 
@@ -569,7 +577,7 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
 
     let customerId: string | null = null;
     if (input.customer && 'id' in input.customer) {
-      customerId = (await loadUsableCustomer(actor, input.customer.id, instrument?.ownerCustomerId ?? null, transaction)).id;
+      customerId = (await loadUsableCustomer(actor, input.customer.id, transaction)).id;
     } else if (input.customer && 'new' in input.customer) {
       customerId = (await createCustomerIn(actor, shop.id, input.customer.new, transaction)).id;
     }
@@ -638,7 +646,7 @@ export async function importInstruments(actor: Actor, batch: z.output<typeof imp
   let ownerCustomerId: string | null = null;
   if (batch.ownerCustomerId) {
     try {
-      ownerCustomerId = (await loadUsableCustomer(actor, batch.ownerCustomerId, null)).id;
+      ownerCustomerId = (await loadUsableCustomer(actor, batch.ownerCustomerId)).id;
     } catch {
       throw badRequest('Some fields need attention.', { ownerCustomerId: 'Choose a school or customer of your shops.' });
     }
