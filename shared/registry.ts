@@ -24,6 +24,12 @@ export interface InstrumentHit {
   score: number;
 }
 
+/**
+ * How a customer whose name the viewer may not see is written in files, PDFs and e-mails (JSON answers carry
+ * `null` and the screens write this).
+ */
+export const PRIVATE_CUSTOMER_LABEL = 'Private customer';
+
 export interface CustomerView {
   id: string;
   kind: CustomerKind;

@@ -75,18 +75,64 @@ interface CustomerRow {
   homeShopId: string | null;
 }
 
+/** Whoever looks: a signed-in person (`Actor`), or a notice's recipient with the ability built for them. */
+export type CustomerViewer = Pick<Actor, 'ability'>;
+
+/** The fields the privacy rule reads; any customer row or join result can supply them. */
+export interface CustomerRef {
+  id: string;
+  kind: CustomerKind;
+  name: string;
+  homeShopId: string | null;
+}
+
 /**
  * Whether a person may see a customer's contact details: the owner; staff and managers of a shop that
  * served the customer (a job of theirs at that shop, or the shop that registered them). The rules in
  * shared/auth/ability.ts name that shop `homeShopId`, so each serving shop is checked as if it were the
  * home shop. Work history never depends on this; only the contact fields do.
  */
-export function maySeeContact(actor: Actor, customer: CustomerRow, servedShopIds: Iterable<string>): boolean {
+export function maySeeContact(viewer: CustomerViewer, customer: CustomerRef, servedShopIds: Iterable<string>): boolean {
   const shops = new Set<string | null>([customer.homeShopId, ...servedShopIds]);
   for (const shopId of shops) {
-    if (actor.ability.can('read', asSubject('CustomerContact', { ...customer, homeShopId: shopId }) as never)) return true;
+    if (viewer.ability.can('read', asSubject('CustomerContact', { ...customer, homeShopId: shopId }) as never)) return true;
   }
   return false;
+}
+
+/**
+ * THE rule for a customer's name, used by every answer that carries one (job board and page, reports and
+ * their CSVs, invoices, the registry, notices and e-mails): a school or the fleet is an institution and
+ * shows its name; a private person's name is personal data like their contact, so it leaves only to those
+ * who may see that contact (`maySeeContact`). `null` means hidden: JSON carries null, files and e-mails
+ * write PRIVATE_CUSTOMER_LABEL.
+ */
+export function visibleCustomerName(viewer: CustomerViewer, customer: CustomerRef, servedShopIds: Iterable<string>): string | null {
+  if (customer.kind !== 'person') return customer.name;
+  return maySeeContact(viewer, customer, servedShopIds) ? customer.name : null;
+}
+
+/**
+ * `visibleCustomerName` for many customers at once (a list, a report): the shops that served each private
+ * customer are read in one query. Keyed by customer id.
+ */
+export async function visibleCustomerNames(
+  viewer: CustomerViewer & { networkId: string }, customers: Iterable<CustomerRef | null | undefined>, transaction?: Transaction,
+): Promise<Map<string, string | null>> {
+  const byId = new Map<string, CustomerRef>();
+  for (const c of customers) if (c) byId.set(c.id, c);
+  const people = [...byId.values()].filter((c) => c.kind === 'person').map((c) => c.id);
+  const served = await servedShopsOf(viewer.networkId, people, transaction);
+  return new Map([...byId.values()].map((c) => [c.id, visibleCustomerName(viewer, c, served.get(c.id) ?? [])]));
+}
+
+/** A customer as the viewer may see them (name and contact through the rules above), by id; null when none. */
+export async function customerViewById(actor: Actor, customerId: string | null, transaction?: Transaction): Promise<CustomerView | null> {
+  if (!customerId) return null;
+  const c = await Customer.findOne({ where: { networkId: actor.networkId, id: customerId }, transaction });
+  if (!c) return null;
+  const served = await servedShopsOf(actor.networkId, [c.id], transaction);
+  return customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
 }
 
 async function servedShopsOf(networkId: string, customerIds: string[], transaction?: Transaction): Promise<Map<string, string[]>> {
@@ -102,13 +148,12 @@ async function servedShopsOf(networkId: string, customerIds: string[], transacti
 
 
 /** The one place a customer is serialised: contact fields leave the server only when `maySeeContact`. */
-function customerView(actor: Actor, c: CustomerRow, served: string[]): CustomerView {
+function customerView(actor: CustomerViewer, c: CustomerRow, served: string[]): CustomerView {
   const contactVisible = maySeeContact(actor, c, served);
   return {
     id: c.id,
     kind: c.kind,
-    // a school or the fleet is an institution; a private person's name is personal data like the rest
-    name: contactVisible || c.kind !== 'person' ? c.name : null,
+    name: visibleCustomerName(actor, c, served),
     contactVisible,
     contact: contactVisible
       ? { contactName: c.contactName, email: c.email, phone: c.phone, address: c.address, notes: c.notes }

@@ -68,7 +68,7 @@ const report: DashboardReport = {
     oldest: [
       {
         id: 'job-77', number: 77, shopId: fen.id, shopName: fen.name, stage: 'on_bench', family: 'clarinet', maker: 'Ashgrove',
-        model: 'C-1', serial: 'AG 100', customerName: null, promisedOn: '2026-11-27', daysLate: 4, assigneeName: null,
+        model: 'C-1', serial: 'AG 100', customerName: null, customerHidden: false, promisedOn: '2026-11-27', daysLate: 4, assigneeName: null,
       },
     ],
   },
@@ -181,7 +181,7 @@ describe('lists behind the figures', () => {
           items: [
             {
               id: 'job-9', number: 9, shopId: fen.id, shopName: fen.name, stage: 'on_bench', family: 'flute', maker: 'Ashgrove', model: null,
-              serial: 'F 9', customerName: null, skillName: 'Flutes', estimatedHours: 5, openedAt: '2026-11-30T06:30:00.000Z', readyAt: null,
+              serial: 'F 9', customerName: null, customerHidden: false, skillName: 'Flutes', estimatedHours: 5, openedAt: '2026-11-30T06:30:00.000Z', readyAt: null,
               promisedOn: null, assigneeName: null,
             },
           ],

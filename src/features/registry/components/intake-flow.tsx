@@ -1,3 +1,4 @@
+import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
 import { useMutation, useQuery, useQueryClient, type UseQueryResult } from '@tanstack/react-query';
 import { useEffect, useRef, useState, type FormEvent, type ReactNode, type RefObject } from 'react';
 import { Link } from 'react-router-dom';
@@ -260,7 +261,7 @@ const pick = (fields: Record<string, string>, keys: string[]) =>
 
 function describeCustomer(choice: CustomerChoice | null): string {
   if (!choice || choice.kind === 'none') return 'none (rental fleet check-in)';
-  if (choice.kind === 'existing') return choice.customer.name ?? 'the owner on record';
+  if (choice.kind === 'existing') return choice.customer.name ?? PRIVATE_CUSTOMER_LABEL;
   return `${choice.data.name} (new)`;
 }
 
