@@ -1,5 +1,5 @@
 import type { InstrumentFamily, JobStage } from './domain.js';
-import type { CustomerKind, ImportRowResult, InstrumentStatus, MatchKind, TimelineFilter } from './schemas/registry.js';
+import type { CustomerKind, ImportRowOutcome, ImportRowResult, InstrumentStatus, MatchKind, TimelineFilter } from './schemas/registry.js';
 
 /** Shapes of the registry API's answers: built by server/modules/registry/service.ts, read by the client. */
 
@@ -23,6 +23,12 @@ export interface InstrumentHit {
   match: MatchKind | null;
   score: number;
 }
+
+/**
+ * How a customer whose name the viewer may not see is written in files, PDFs and e-mails (JSON answers carry
+ * `null` and the screens write this).
+ */
+export const PRIVATE_CUSTOMER_LABEL = 'Private customer';
 
 export interface CustomerView {
   id: string;
@@ -58,5 +64,7 @@ export interface IntakeResult {
 
 export interface ImportBatchResult {
   results: ImportRowResult[];
-  counts: Record<'created' | 'updated' | 'unchanged' | 'error', number>;
+  counts: Record<ImportRowOutcome, number>;
+  /** true for a preview: nothing was written */
+  dryRun: boolean;
 }

@@ -6,6 +6,7 @@ import * as reportIndexes from './0007-report-indexes.js';
 import * as signInIdentity from './0008-sign-in-identity.js';
 import * as rateLimitStore from './0010-rate-limit-store.js';
 import * as attachmentEtag from './0009-attachment-etag.js';
+import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -21,4 +22,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0008-sign-in-identity', ...signInIdentity },
   { name: '0009-attachment-etag', ...attachmentEtag },
   { name: '0010-rate-limit-store', ...rateLimitStore },
+  { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
 ];

@@ -17,7 +17,9 @@ export interface JobSummary {
   stageBeforeHold: JobStage | null;
   shop: { id: string; name: string; timeZone: string };
   instrument: { id: string; family: InstrumentFamily; maker: string; model: string | null; serial: string };
+  /** null when there is no customer, or for a private customer of another shop (then `customerHidden`) */
   customerName: string | null;
+  customerHidden: boolean;
   complaint: string;
   assignee: PersonRef | null;
   requiredSkill: PersonRef | null;
@@ -78,7 +80,8 @@ export interface JobDetail {
   job: JobSummary & {
     conditionNotes: string | null;
     estimatedHours: number | null;
-    estimateApproval: { at: string; byName: string; method: EstimateApprovalMethod } | null;
+    /** `byName` is null where the customer's contact is not shown to this person */
+    estimateApproval: { at: string; byName: string | null; method: EstimateApprovalMethod } | null;
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;
@@ -91,7 +94,8 @@ export interface JobDetail {
     laborRateCents: number;
     taxRateBasisPoints: number;
   };
-  customer: { id: string; name: string; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
+  /** `name` is null for a private customer whose details stay with the shops that serve them */
+  customer: { id: string; name: string | null; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
   lineItems: LineItemDto[];
   totals: EstimateTotals;
   timeLogs: TimeLogDto[];

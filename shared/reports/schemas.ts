@@ -70,7 +70,9 @@ export interface OverdueJob {
   maker: string;
   model: string | null;
   serial: string;
+  /** null when there is no customer, or for a private customer of a shop the viewer does not serve (`customerHidden`) */
   customerName: string | null;
+  customerHidden: boolean;
   promisedOn: string;
   /** calendar days since the promised date, counted on the shop's calendar */
   daysLate: number;
@@ -154,7 +156,9 @@ export interface ReportJob {
   maker: string;
   model: string | null;
   serial: string;
+  /** null when there is no customer, or for a private customer of a shop the viewer does not serve (`customerHidden`) */
   customerName: string | null;
+  customerHidden: boolean;
   skillName: string | null;
   estimatedHours: number | null;
   openedAt: string;

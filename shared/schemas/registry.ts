@@ -229,6 +229,8 @@ export const importBatchSchema = z
     shopId: uuid('Choose the shop the instruments are registered at.'),
     ownerKind: z.enum(OWNER_KINDS, { error: 'Say who owns these instruments.' }),
     ownerCustomerId: uuid('Choose the school or customer.').optional(),
+    // the preview: every row checked against the registry as the import would, nothing written
+    dryRun: z.boolean().optional().default(false),
     // rows are validated one by one on the server, so one bad row never rejects the batch
     rows: z
       .array(z.record(z.string(), z.unknown()))
@@ -241,11 +243,21 @@ export const importBatchSchema = z
   });
 export type ImportBatchInput = z.input<typeof importBatchSchema>;
 
-export type ImportRowOutcome = 'created' | 'updated' | 'unchanged' | 'error';
+/**
+ * `held_elsewhere`: the instrument is known and held by a shop where the person may not update it, so the
+ * row changed nothing (in a preview, `created` and `updated` say what the import would do).
+ */
+export type ImportRowOutcome = 'created' | 'updated' | 'unchanged' | 'held_elsewhere' | 'error';
+export const HELD_ELSEWHERE_MESSAGE = 'Held by another shop — not changed.';
 export interface ImportRowResult {
   row: number;
   outcome: ImportRowOutcome;
   instrumentId?: string;
+  /** for `held_elsewhere`: HELD_ELSEWHERE_MESSAGE and the shop that holds it */
+  message?: string;
+  heldBy?: { id: string; name: string };
+  /** for `updated`: the fields the row changes */
+  changed?: string[];
   /** field → message; `_` for a problem with the row as a whole */
   errors?: Record<string, string>;
 }

@@ -241,7 +241,7 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     expect(res.text).toContain('"Quillfeather ""North"" School, Band Dept"');
     expect(res.text).toContain(`"'=HYPERLINK(""http://example.test"",""pay"")"`);
 
-    const one = await request(app).get(`/api/reports/bench-load.csv?shop=${ids.B}`).set('Cookie', cookies.tech).expect(200);
+    const one = await request(app).get(`/api/reports/bench-load.csv?shop=${ids.B}`).set('Cookie', cookies.manager).expect(200);
     expect(one.headers['content-disposition']).toMatch(/filename="benchrelay-bench-load-t[0-9a-z]+-/);
     expect(one.text.split('\r\n')[0]).toBe('shop_code,shop,skill,weekly_bench_hours,open_hours,open_jobs,unestimated_jobs,weeks_of_work');
     expect(one.text).toContain('Birch bench,Brass dent work,0,2,1,0,\r\n');
@@ -253,6 +253,25 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     }
     const weekly = await request(app).get('/api/reports/weekly-intake.csv').set('Cookie', cookies.manager).expect(200);
     expect(weekly.text.trimEnd().split('\r\n')).toHaveLength(53);
+  });
+
+  it('every report CSV needs the export permission: technicians and auditors read the figures but download no file', async () => {
+    const files = ['open-jobs', 'overdue', 'transfers', 'bench-load', 'turnaround', 'weekly-intake', 'jobs'];
+    for (const name of files) {
+      for (const [who, shop] of [['tech', ids.B], ['auditor', ids.C]] as const) {
+        const scoped = await request(app).get(`/api/reports/${name}.csv?shop=${shop}`).set('Cookie', cookies[who]);
+        expect([name, who, scoped.status]).toEqual([name, who, 403]);
+        expect(scoped.headers['content-type']).toMatch(/json/);
+        expect(scoped.text).not.toContain('job_number');
+        const all = await request(app).get(`/api/reports/${name}.csv`).set('Cookie', cookies[who]);
+        expect([name, who, all.status]).toEqual([name, who, 403]);
+      }
+    }
+    // the same people still read the figures on screen
+    await request(app).get(`/api/reports/overdue?shop=${ids.B}`).set('Cookie', cookies.tech).expect(200);
+    await request(app).get(`/api/reports/jobs?shop=${ids.C}`).set('Cookie', cookies.auditor).expect(200);
+    // front desk, who bills at the counter, downloads their shop's files
+    await request(app).get(`/api/reports/overdue.csv?shop=${ids.A}`).set('Cookie', cookies.desk).expect(200);
   });
 
   it('invoice CSV: released jobs by the shop’s release date, line totals, tax and totals in whole cents', async () => {

@@ -17,6 +17,7 @@ import {
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
+import { customerViewById, visibleCustomerNames } from '../registry/service.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import { estimateTotals, formatBasisPoints, formatCents, laborHours, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
@@ -122,11 +123,15 @@ const summaryIncludes = () => [
   { model: Instrument, as: 'instrument', attributes: ['id', 'family', 'maker', 'model', 'serial'] },
   { model: User, as: 'assignee', attributes: ['id', 'name'] },
   { model: Skill, as: 'requiredSkill', attributes: ['id', 'name'] },
-  { model: Customer, as: 'customer', attributes: ['id', 'name'] },
+  { model: Customer, as: 'customer', attributes: ['id', 'kind', 'name', 'homeShopId'] },
   { model: Shop, as: 'shop', attributes: ['id', 'name', 'timeZone'] },
 ];
 
-function toSummary(job: Job, now = new Date()): JobSummary {
+/** Customer names as the viewer may see them (registry's rule), for a page of jobs. */
+const customerNamesFor = (actor: Actor, jobs: Job[]) => visibleCustomerNames(actor, jobs.map((j) => j.customer));
+
+function toSummary(job: Job, names: Map<string, string | null>, now = new Date()): JobSummary {
+  const customerName = job.customer ? (names.get(job.customer.id) ?? null) : null;
   const shop = job.shop!;
   const inst = job.instrument!;
   return {
@@ -136,7 +141,8 @@ function toSummary(job: Job, now = new Date()): JobSummary {
     stageBeforeHold: job.stageBeforeHold ?? null,
     shop: { id: shop.id, name: shop.name, timeZone: shop.timeZone },
     instrument: { id: inst.id, family: inst.family, maker: inst.maker, model: inst.model ?? null, serial: inst.serial },
-    customerName: job.customer?.name ?? null,
+    customerName,
+    customerHidden: !!job.customer && customerName === null,
     complaint: job.complaint,
     assignee: person(job.assignee),
     requiredSkill: person(job.requiredSkill),
@@ -211,10 +217,12 @@ export async function jobBoard(actor: Actor, q: BoardQuery): Promise<BoardRespon
     offset: (q.page - 1) * q.pageSize,
   });
 
-  const [technicians, skills] = await Promise.all([techniciansAt(actor.networkId, shop.id), networkSkills(actor.networkId)]);
+  const [technicians, skills, names] = await Promise.all([
+    techniciansAt(actor.networkId, shop.id), networkSkills(actor.networkId), customerNamesFor(actor, rows),
+  ]);
   return {
     shop: { id: shop.id, name: shop.name, timeZone: shop.timeZone },
-    jobs: rows.map((j) => toSummary(j, now)),
+    jobs: rows.map((j) => toSummary(j, names, now)),
     total: count,
     page: q.page,
     pageSize: q.pageSize,
@@ -239,7 +247,8 @@ export async function myBench(actor: Actor, shopId?: string): Promise<{ jobs: Jo
     limit: 200,
   });
   const now = new Date();
-  return { jobs: rows.map((j) => toSummary(j, now)) };
+  const names = await customerNamesFor(actor, rows);
+  return { jobs: rows.map((j) => toSummary(j, names, now)) };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -298,7 +307,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     }),
     techniciansAt(actor.networkId, job.shopId),
     networkSkills(actor.networkId),
-    job.customerId ? Customer.findOne({ where: { networkId: actor.networkId, id: job.customerId } }) : Promise.resolve(null),
+    customerViewById(actor, job.customerId ?? null),
   ]);
 
   const row = asRow(job);
@@ -306,9 +315,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
   const canUpdate = actor.ability.can('update', subject('Job', row) as never);
   const canMove = actor.ability.can('move_stage', subject('Job', row) as never);
   const moves = canMove ? allowedMoves(job, roles) : [];
-  const contactShown = customer
-    ? actor.ability.can('read', subject('CustomerContact', customer.get({ plain: true }) as Record<string, unknown>) as never)
-    : false;
+  // the registry's rule: contact (and a private person's name) only for the shops that serve the customer
+  const contactShown = customer?.contactVisible ?? false;
 
   const timeLogs: TimeLogDto[] = logs.map((l) => ({
     id: l.id,
@@ -328,12 +336,17 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
 
   return {
     job: {
-      ...toSummary(job),
+      ...toSummary(job, new Map(customer ? [[customer.id, customer.name]] : [])),
       conditionNotes: job.conditionNotes ?? null,
       estimatedHours: job.estimatedHours ?? null,
       estimateApproval:
         job.estimateApprovedAt && job.estimateApprovedByName && job.estimateApprovalMethod
-          ? { at: iso(job.estimateApprovedAt)!, byName: job.estimateApprovedByName, method: job.estimateApprovalMethod }
+          ? {
+              at: iso(job.estimateApprovedAt)!,
+              // who approved is the customer or their contact person: shown where the customer's contact is
+              byName: !customer || contactShown ? job.estimateApprovedByName : null,
+              method: job.estimateApprovalMethod,
+            }
           : null,
       readyAt: iso(job.readyAt),
       releasedAt: iso(job.releasedAt),
@@ -352,8 +365,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
           id: customer.id,
           name: customer.name,
           kind: customer.kind,
-          email: contactShown ? (customer.email ?? null) : null,
-          phone: contactShown ? (customer.phone ?? null) : null,
+          email: customer.contact?.email ?? null,
+          phone: customer.contact?.phone ?? null,
           contactShown,
         }
       : null,
@@ -723,8 +736,10 @@ export async function recordApproval(actor: Actor, jobId: string, input: z.infer
       job,
       actor.id,
       'estimate_approved',
-      `Job ${job.number}: estimate approved by ${input.approvedByName} (${ESTIMATE_APPROVAL_METHOD_LABELS[input.method].toLowerCase()})`,
-      { approvedByName: input.approvedByName, method: input.method, approvedAt: at.toISOString() },
+      // the approver's name stays on the job (shown where the customer's contact is); the timeline is read
+      // network-wide, so its event says how, not who
+      `Job ${job.number}: estimate approved (${ESTIMATE_APPROVAL_METHOD_LABELS[input.method].toLowerCase()})`,
+      { method: input.method, approvedAt: at.toISOString() },
       transaction,
     );
     if (job.stage === 'assessed') {

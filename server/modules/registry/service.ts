@@ -24,6 +24,7 @@ import {
   customerInputSchema,
   intakeSchema,
   importBatchSchema,
+  HELD_ELSEWHERE_MESSAGE,
 } from '../../../shared/schemas/registry.js';
 import type { CustomerView, ImportBatchResult, InstrumentHit, IntakeResult, TimelineItem } from '../../../shared/registry.js';
 
@@ -74,18 +75,64 @@ interface CustomerRow {
   homeShopId: string | null;
 }
 
+/** Whoever looks: a signed-in person (`Actor`), or a notice's recipient with the ability built for them. */
+export type CustomerViewer = Pick<Actor, 'ability'>;
+
+/** The fields the privacy rule reads; any customer row or join result can supply them. */
+export interface CustomerRef {
+  id: string;
+  kind: CustomerKind;
+  name: string;
+  homeShopId: string | null;
+}
+
 /**
  * Whether a person may see a customer's contact details: the owner; staff and managers of a shop that
  * served the customer (a job of theirs at that shop, or the shop that registered them). The rules in
  * shared/auth/ability.ts name that shop `homeShopId`, so each serving shop is checked as if it were the
  * home shop. Work history never depends on this; only the contact fields do.
  */
-export function maySeeContact(actor: Actor, customer: CustomerRow, servedShopIds: Iterable<string>): boolean {
+export function maySeeContact(viewer: CustomerViewer, customer: CustomerRef, servedShopIds: Iterable<string>): boolean {
   const shops = new Set<string | null>([customer.homeShopId, ...servedShopIds]);
   for (const shopId of shops) {
-    if (actor.ability.can('read', asSubject('CustomerContact', { ...customer, homeShopId: shopId }) as never)) return true;
+    if (viewer.ability.can('read', asSubject('CustomerContact', { ...customer, homeShopId: shopId }) as never)) return true;
   }
   return false;
+}
+
+/**
+ * THE rule for a customer's name, used by every answer that carries one (job board and page, reports and
+ * their CSVs, invoices, the registry, notices and e-mails): a school or the fleet is an institution and
+ * shows its name; a private person's name is personal data like their contact, so it leaves only to those
+ * who may see that contact (`maySeeContact`). `null` means hidden: JSON carries null, files and e-mails
+ * write PRIVATE_CUSTOMER_LABEL.
+ */
+export function visibleCustomerName(viewer: CustomerViewer, customer: CustomerRef, servedShopIds: Iterable<string>): string | null {
+  if (customer.kind !== 'person') return customer.name;
+  return maySeeContact(viewer, customer, servedShopIds) ? customer.name : null;
+}
+
+/**
+ * `visibleCustomerName` for many customers at once (a list, a report): the shops that served each private
+ * customer are read in one query. Keyed by customer id.
+ */
+export async function visibleCustomerNames(
+  viewer: CustomerViewer & { networkId: string }, customers: Iterable<CustomerRef | null | undefined>, transaction?: Transaction,
+): Promise<Map<string, string | null>> {
+  const byId = new Map<string, CustomerRef>();
+  for (const c of customers) if (c) byId.set(c.id, c);
+  const people = [...byId.values()].filter((c) => c.kind === 'person').map((c) => c.id);
+  const served = await servedShopsOf(viewer.networkId, people, transaction);
+  return new Map([...byId.values()].map((c) => [c.id, visibleCustomerName(viewer, c, served.get(c.id) ?? [])]));
+}
+
+/** A customer as the viewer may see them (name and contact through the rules above), by id; null when none. */
+export async function customerViewById(actor: Actor, customerId: string | null, transaction?: Transaction): Promise<CustomerView | null> {
+  if (!customerId) return null;
+  const c = await Customer.findOne({ where: { networkId: actor.networkId, id: customerId }, transaction });
+  if (!c) return null;
+  const served = await servedShopsOf(actor.networkId, [c.id], transaction);
+  return customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
 }
 
 async function servedShopsOf(networkId: string, customerIds: string[], transaction?: Transaction): Promise<Map<string, string[]>> {
@@ -101,13 +148,12 @@ async function servedShopsOf(networkId: string, customerIds: string[], transacti
 
 
 /** The one place a customer is serialised: contact fields leave the server only when `maySeeContact`. */
-function customerView(actor: Actor, c: CustomerRow, served: string[]): CustomerView {
+function customerView(actor: CustomerViewer, c: CustomerRow, served: string[]): CustomerView {
   const contactVisible = maySeeContact(actor, c, served);
   return {
     id: c.id,
     kind: c.kind,
-    // a school or the fleet is an institution; a private person's name is personal data like the rest
-    name: contactVisible || c.kind !== 'person' ? c.name : null,
+    name: visibleCustomerName(actor, c, served),
     contactVisible,
     contact: contactVisible
       ? { contactName: c.contactName, email: c.email, phone: c.phone, address: c.address, notes: c.notes }
@@ -482,15 +528,23 @@ export async function createCustomer(actor: Actor, input: z.output<typeof custom
   });
 }
 
-/** A customer the person may attach to a job or an instrument: one they can look up, or the instrument's owner on record. */
-async function loadUsableCustomer(actor: Actor, id: string, ownerOnRecord: string | null, transaction?: Transaction): Promise<Customer> {
+/**
+ * A customer the person may attach to a job or an instrument: one they can already look up (read on
+ * `Customer` for the customer's home shop or a shop that served them, the rule of the customer search).
+ * Being the owner on record of a picked instrument is not enough: a job at the person's shop makes that
+ * shop a serving shop, which would open the customer's contact to it. Anyone else is "not found".
+ */
+async function loadUsableCustomer(actor: Actor, id: string, transaction?: Transaction): Promise<Customer> {
+  const refused = () =>
+    new AppError(404, 'not_found', 'That customer was not found among your shops’ customers.', {
+      customer: 'Pick a customer of your shops, or add the customer here.',
+    });
   const customer = await Customer.findOne({ where: { networkId: actor.networkId, id }, transaction });
-  if (!customer) throw notFound('That customer');
-  if (customer.id === ownerOnRecord) return customer;
+  if (!customer) throw refused();
   const served = (await servedShopsOf(actor.networkId, [customer.id], transaction)).get(customer.id) ?? [];
   const shops = new Set([customer.homeShopId, ...served]);
   const usable = [...shops].some((shopId) => actor.ability.can('read', asSubject('Customer', { homeShopId: shopId }) as never));
-  if (!usable) throw notFound('That customer');
+  if (!usable) throw refused();
   return customer;
 }
 
@@ -569,7 +623,7 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
 
     let customerId: string | null = null;
     if (input.customer && 'id' in input.customer) {
-      customerId = (await loadUsableCustomer(actor, input.customer.id, instrument?.ownerCustomerId ?? null, transaction)).id;
+      customerId = (await loadUsableCustomer(actor, input.customer.id, transaction)).id;
     } else if (input.customer && 'new' in input.customer) {
       customerId = (await createCustomerIn(actor, shop.id, input.customer.new, transaction)).id;
     }
@@ -624,9 +678,12 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
 
 /**
  * One batch of a fleet file (the client applies the column mapping and sends a few hundred rows at a
- * time). Each row is validated with the shared schema and upserted on its own by (network, maker,
+ * time). Each row is validated with the shared schema and matched on its own by (network, maker,
  * serial), so a bad row never blocks the good ones and importing the same file again changes nothing.
- * An existing instrument keeps its current shop; new ones are registered at the batch's shop.
+ * New instruments are registered at the batch's shop. An existing instrument keeps its current shop and
+ * is changed only where the person may update it there; a row naming an instrument held elsewhere is
+ * reported and changes nothing. With `dryRun` (the preview) every row is checked the same way and
+ * nothing is written.
  */
 export async function importInstruments(actor: Actor, batch: z.output<typeof importBatchSchema>): Promise<ImportBatchResult> {
   const networkId = actor.networkId;
@@ -638,12 +695,14 @@ export async function importInstruments(actor: Actor, batch: z.output<typeof imp
   let ownerCustomerId: string | null = null;
   if (batch.ownerCustomerId) {
     try {
-      ownerCustomerId = (await loadUsableCustomer(actor, batch.ownerCustomerId, null)).id;
+      ownerCustomerId = (await loadUsableCustomer(actor, batch.ownerCustomerId)).id;
     } catch {
       throw badRequest('Some fields need attention.', { ownerCustomerId: 'Choose a school or customer of your shops.' });
     }
   }
 
+  const shopNames = new Map((await Shop.findAll({ where: { networkId }, attributes: ['id', 'name'] })).map((s) => [s.id, s.name]));
+  const context: ImportContext = { actor, shop, ownerCustomerId, ownerKind: batch.ownerKind, dryRun: batch.dryRun, shopNames };
   const results: ImportRowResult[] = [];
   const seen = new Map<string, number>();
   for (const [index, candidate] of batch.rows.entries()) {
@@ -661,11 +720,11 @@ export async function importInstruments(actor: Actor, batch: z.output<typeof imp
       continue;
     }
     seen.set(key, row.row);
-    results.push(await upsertImportRow(actor, shop, row, ownerCustomerId, batch.ownerKind));
+    results.push(await importRow(context, row));
   }
-  const counts = { created: 0, updated: 0, unchanged: 0, error: 0 };
+  const counts = { created: 0, updated: 0, unchanged: 0, held_elsewhere: 0, error: 0 };
   for (const r of results) counts[r.outcome]++;
-  return { results, counts };
+  return { results, counts, dryRun: batch.dryRun };
 }
 
 /** Undo the apostrophe our own CSV export puts before formula-like cells, so an export re-imports as it was. */
@@ -675,60 +734,128 @@ function unquoteCells(row: Record<string, unknown>): Record<string, unknown> {
   return out;
 }
 
-async function upsertImportRow(
-  actor: Actor, shop: Shop, row: z.output<typeof importRowSchema>, ownerCustomerId: string | null, ownerKind: OwnerKind,
-): Promise<ImportRowResult> {
+interface ImportContext {
+  actor: Actor;
+  shop: Shop;
+  ownerCustomerId: string | null;
+  ownerKind: OwnerKind;
+  dryRun: boolean;
+  shopNames: Map<string, string>;
+}
+
+type ImportRow = z.output<typeof importRowSchema>;
+
+/** The fields a fleet row may change on a known instrument, with the names the history event uses. */
+const IMPORT_CHANGE_FIELDS = [
+  ['family', 'family'], ['model', 'model'], ['assetTag', 'asset tag'], ['yearMade', 'year made'], ['notes', 'notes'],
+  ['ownerKind', 'owner kind'], ['ownerCustomerId', 'owner'],
+] as const;
+type ImportChangeField = (typeof IMPORT_CHANGE_FIELDS)[number][0];
+
+/** What the row would change on the instrument: blank optional cells keep what is on record. */
+function importChanges(instrument: Instrument, row: ImportRow, tag: string | undefined, ctx: ImportContext) {
+  const wanted: Record<ImportChangeField, unknown> = {
+    family: row.family,
+    model: row.model ?? instrument.model,
+    assetTag: tag ?? instrument.assetTag,
+    yearMade: row.yearMade ?? instrument.yearMade,
+    notes: row.notes ?? instrument.notes,
+    ownerKind: ctx.ownerKind,
+    ownerCustomerId: ctx.ownerCustomerId,
+  };
+  const changes: Partial<Record<ImportChangeField, { from: unknown; to: unknown }>> = {};
+  for (const [field] of IMPORT_CHANGE_FIELDS) {
+    const from = instrument[field] ?? null;
+    const to = wanted[field] ?? null;
+    if (from !== to) changes[field] = { from, to };
+  }
+  return changes;
+}
+
+const mayUpdate = (actor: Actor, instrument: Instrument) =>
+  actor.ability.can('update', asSubject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>) as never);
+
+function heldElsewhere(ctx: ImportContext, row: ImportRow, instrument: Instrument): ImportRowResult {
+  const name = ctx.shopNames.get(instrument.currentShopId) ?? 'another shop';
+  return {
+    row: row.row, outcome: 'held_elsewhere', instrumentId: instrument.id, message: HELD_ELSEWHERE_MESSAGE,
+    heldBy: { id: instrument.currentShopId, name },
+  };
+}
+
+async function importRow(ctx: ImportContext, row: ImportRow, attempt = 0): Promise<ImportRowResult> {
+  const { actor, shop } = ctx;
   const networkId = actor.networkId;
   const tag = normaliseTag(row.assetTag);
-  const makerNormalized = normalizeMaker(row.maker);
-  const serialNormalized = normalizeSerial(row.serial);
-  const existing = await Instrument.findOne({ where: { networkId, makerNormalized, serialNormalized }, attributes: ['id'] });
+  const where = { networkId, makerNormalized: normalizeMaker(row.maker), serialNormalized: normalizeSerial(row.serial) };
+  const existing = await Instrument.findOne({ where });
+  // a shop's instruments are changed only by people who may update them there
+  if (existing && !mayUpdate(actor, existing)) return heldElsewhere(ctx, row, existing);
   if (tag) {
     const holder = await assetTagTaken(networkId, tag, existing?.id ?? null);
     if (holder) return { row: row.row, outcome: 'error', errors: { assetTag: `Asset tag ${tag} is already on ${holder.maker} ${holder.serial}.` } };
   }
   try {
-    // One statement decides insert, update or nothing, so two imports of the same file at once cannot duplicate.
-    const rows = await sequelize.query<{ id: string; inserted: boolean }>(
-      `insert into instruments as i (network_id, family, maker, maker_normalized, model, serial, serial_normalized,
-                                     owner_kind, owner_customer_id, current_shop_id, status, asset_tag, year_made, notes)
-       values (:networkId, :family, :maker, :makerNormalized, :model, :serial, :serialNormalized,
-               :ownerKind, :ownerCustomerId, :shopId, 'in_service', coalesce(:tag, :newTag), :yearMade, :notes)
-       on conflict (network_id, maker_normalized, serial_normalized) do update set
-         family = excluded.family,
-         model = coalesce(:model, i.model),
-         asset_tag = coalesce(:tag, i.asset_tag),
-         year_made = coalesce(:yearMade, i.year_made),
-         notes = coalesce(:notes, i.notes),
-         owner_kind = excluded.owner_kind,
-         owner_customer_id = excluded.owner_customer_id,
-         updated_at = now()
-       where (i.family, i.model, i.asset_tag, i.year_made, i.notes, i.owner_kind, i.owner_customer_id)
-             is distinct from
-             (excluded.family, coalesce(:model, i.model), coalesce(:tag, i.asset_tag), coalesce(:yearMade, i.year_made),
-              coalesce(:notes, i.notes), excluded.owner_kind, excluded.owner_customer_id)
-       returning id, (xmax = 0) as inserted`,
-      {
-        replacements: {
-          networkId, family: row.family, maker: row.maker, makerNormalized, model: row.model ?? null, serial: row.serial,
-          serialNormalized, ownerKind, ownerCustomerId,
-          shopId: shop.id, tag: tag ?? null, newTag: newAssetTag(), yearMade: row.yearMade ?? null, notes: row.notes ?? null,
-        },
-        type: QueryTypes.SELECT,
-      },
-    );
-    const hit = rows[0];
-    if (!hit) return { row: row.row, outcome: 'unchanged', instrumentId: existing?.id };
-    if (hit.inserted) {
-      await HistoryEvent.findOrCreate({
-        where: { networkId, idempotencyKey: `registered:${hit.id}` },
-        defaults: {
-          networkId, instrumentId: hit.id, shopId: shop.id, userId: actor.id, kind: 'registered',
-          summary: `Registered at ${shop.name} from a fleet import`, data: { row: row.row }, idempotencyKey: `registered:${hit.id}`,
-        },
+    if (!existing) {
+      if (ctx.dryRun) return { row: row.row, outcome: 'created' };
+      const created = await sequelize.transaction(async (transaction) => {
+        // do nothing on a conflict: another import registered it a moment ago, and this row becomes an update
+        const rows = await sequelize.query<{ id: string }>(
+          `insert into instruments (network_id, family, maker, maker_normalized, model, serial, serial_normalized,
+                                    owner_kind, owner_customer_id, current_shop_id, status, asset_tag, year_made, notes)
+           values (:networkId, :family, :maker, :makerNormalized, :model, :serial, :serialNormalized,
+                   :ownerKind, :ownerCustomerId, :shopId, 'in_service', :tag, :yearMade, :notes)
+           on conflict (network_id, maker_normalized, serial_normalized) do nothing
+           returning id`,
+          {
+            replacements: {
+              ...where, family: row.family, maker: row.maker, model: row.model ?? null, serial: row.serial,
+              ownerKind: ctx.ownerKind, ownerCustomerId: ctx.ownerCustomerId, shopId: shop.id, tag: tag ?? newAssetTag(),
+              yearMade: row.yearMade ?? null, notes: row.notes ?? null,
+            },
+            type: QueryTypes.SELECT, transaction,
+          },
+        );
+        const id = rows[0]?.id;
+        if (!id) return null;
+        await HistoryEvent.create(
+          {
+            networkId, instrumentId: id, shopId: shop.id, userId: actor.id, kind: 'registered',
+            summary: `Registered at ${shop.name} from a fleet import`, data: { row: row.row }, idempotencyKey: `registered:${id}`,
+          },
+          { transaction },
+        );
+        return id;
       });
+      if (created) return { row: row.row, outcome: 'created', instrumentId: created };
+      if (attempt > 0) throw new Error('fleet import: instrument neither inserted nor found');
+      return importRow(ctx, row, attempt + 1);
     }
-    return { row: row.row, outcome: hit.inserted ? 'created' : 'updated', instrumentId: hit.id };
+
+    const planned = importChanges(existing, row, tag, ctx);
+    if (!Object.keys(planned).length) return { row: row.row, outcome: 'unchanged', instrumentId: existing.id };
+    if (ctx.dryRun) return { row: row.row, outcome: 'updated', instrumentId: existing.id, changed: Object.keys(planned) };
+
+    return await sequelize.transaction(async (transaction): Promise<ImportRowResult> => {
+      // the row as it is now, locked: it may have moved shop or changed since it was read
+      const locked = await Instrument.findOne({ where: { networkId, id: existing.id }, transaction, lock: transaction.LOCK.UPDATE });
+      if (!locked) throw notFound('That instrument');
+      if (!mayUpdate(actor, locked)) return heldElsewhere(ctx, row, locked);
+      const changes = importChanges(locked, row, tag, ctx);
+      const fields = Object.keys(changes) as ImportChangeField[];
+      if (!fields.length) return { row: row.row, outcome: 'unchanged', instrumentId: locked.id };
+      await locked.update(Object.fromEntries(fields.map((f) => [f, changes[f]!.to])) as Partial<Instrument>, { transaction });
+      const labels = IMPORT_CHANGE_FIELDS.filter(([f]) => fields.includes(f)).map(([, label]) => label);
+      await HistoryEvent.create(
+        {
+          networkId, instrumentId: locked.id, shopId: shop.id, userId: actor.id, kind: 'details_changed',
+          summary: `Details changed by a fleet import at ${shop.name}: ${labels.join(', ')}`,
+          data: { source: 'fleet_import', row: row.row, changes },
+        },
+        { transaction },
+      );
+      return { row: row.row, outcome: 'updated', instrumentId: locked.id, changed: fields };
+    });
   } catch (err) {
     const e = err as { name?: string; parent?: { constraint?: string } };
     if (e.name === 'SequelizeUniqueConstraintError' || e.parent?.constraint) {
@@ -737,4 +864,3 @@ async function upsertImportRow(
     throw err;
   }
 }
-

@@ -13,6 +13,10 @@ import type {
   WeeklyIntakeRow,
 } from '../../../shared/reports/schemas.js';
 import type { Invoice } from './service.js';
+import { PRIVATE_CUSTOMER_LABEL } from '../../../shared/registry.js';
+
+/** The customer cell: a hidden private customer is written as such, never left looking like no customer. */
+const customerCell = (c: { customerName: string | null; customerHidden: boolean }) => (c.customerHidden ? PRIVATE_CUSTOMER_LABEL : c.customerName);
 
 /**
  * The CSV files behind the reports page. Column names are snake_case so spreadsheets and accounting
@@ -39,7 +43,7 @@ export function overdueCsv(list: ListAnswer<OverdueJob>): string {
     ['job_number', 'shop', 'stage', 'family', 'maker', 'model', 'serial', 'customer', 'promised_on', 'days_late', 'assignee'],
     list.items.map((j) => [
       j.number, j.shopName, JOB_STAGE_LABELS[j.stage], INSTRUMENT_FAMILY_LABELS[j.family], j.maker, j.model, j.serial,
-      j.customerName, j.promisedOn, j.daysLate, j.assigneeName,
+      customerCell(j), j.promisedOn, j.daysLate, j.assigneeName,
     ]),
   );
 }
@@ -93,7 +97,7 @@ export function jobsCsv(list: ListAnswer<ReportJob>): string {
   return toCsv(
     ['job_number', 'shop', 'stage', 'family', 'maker', 'model', 'serial', 'customer', 'skill', 'estimated_hours', 'opened_at_utc', 'ready_at_utc', 'promised_on', 'assignee'],
     list.items.map((j) => [
-      j.number, j.shopName, JOB_STAGE_LABELS[j.stage], INSTRUMENT_FAMILY_LABELS[j.family], j.maker, j.model, j.serial, j.customerName,
+      j.number, j.shopName, JOB_STAGE_LABELS[j.stage], INSTRUMENT_FAMILY_LABELS[j.family], j.maker, j.model, j.serial, customerCell(j),
       j.skillName, j.estimatedHours, j.openedAt, j.readyAt, j.promisedOn, j.assigneeName,
     ]),
   );
@@ -106,7 +110,7 @@ export function jobsCsv(list: ListAnswer<ReportJob>): string {
 export function invoicesCsv(invoices: Invoice[]): string {
   const rows: CsvCell[][] = [];
   for (const inv of invoices) {
-    const head = [inv.jobNumber, inv.releasedOn, inv.shopCode, inv.shopName, inv.customerName, inv.instrument, inv.serial];
+    const head = [inv.jobNumber, inv.releasedOn, inv.shopCode, inv.shopName, customerCell(inv), inv.instrument, inv.serial];
     const tail = [
       inv.subtotalCents, basisPointsToPercent(inv.taxRateBasisPoints), inv.taxCents, inv.totalCents,
       centsToDecimal(inv.subtotalCents), centsToDecimal(inv.taxCents), centsToDecimal(inv.totalCents),

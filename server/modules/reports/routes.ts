@@ -39,45 +39,47 @@ reportsRouter.get('/api/reports/jobs', requireActor, async (req, res) => {
 });
 
 // ---- CSV ----
+// A file leaves the app and is passed on: every CSV needs `export` on Report (as the invoices always did),
+// not only `read`.
 
 reportsRouter.get('/api/reports/open-jobs.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const scope = await reports.reportScope(actorOf(req), shop);
+  const scope = await reports.reportScope(actorOf(req), shop, 'export');
   sendCsv(res, 'open-jobs', scope.shops, exportsCsv.openJobsCsv(scope.shops, await reports.openJobsByStage(scope)));
 });
 
 reportsRouter.get('/api/reports/overdue.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const list = await reports.overdueList(actorOf(req), shop, null);
+  const list = await reports.overdueList(actorOf(req), shop, null, 'export');
   sendCsv(res, 'overdue', list.shops, exportsCsv.overdueCsv(list));
 });
 
 reportsRouter.get('/api/reports/transfers.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const list = await reports.transferList(actorOf(req), shop, null);
+  const list = await reports.transferList(actorOf(req), shop, null, 'export');
   sendCsv(res, 'transfers-in-flight', list.shops, exportsCsv.transfersCsv(list));
 });
 
 reportsRouter.get('/api/reports/bench-load.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const scope = await reports.reportScope(actorOf(req), shop);
+  const scope = await reports.reportScope(actorOf(req), shop, 'export');
   sendCsv(res, 'bench-load', scope.shops, exportsCsv.benchLoadCsv(scope.shops, await reports.benchLoad(scope)));
 });
 
 reportsRouter.get('/api/reports/turnaround.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const scope = await reports.reportScope(actorOf(req), shop);
+  const scope = await reports.reportScope(actorOf(req), shop, 'export');
   sendCsv(res, 'turnaround', scope.shops, exportsCsv.turnaroundCsv(scope.shops, await reports.turnaround(scope)));
 });
 
 reportsRouter.get('/api/reports/weekly-intake.csv', requireActor, async (req, res) => {
   const { shop } = reportScopeQuerySchema.parse(req.query);
-  const scope = await reports.reportScope(actorOf(req), shop);
+  const scope = await reports.reportScope(actorOf(req), shop, 'export');
   sendCsv(res, 'weekly-intake', scope.shops, exportsCsv.weeklyIntakeCsv(scope.shops, await reports.weeklyIntake(scope)));
 });
 
 reportsRouter.get('/api/reports/jobs.csv', requireActor, async (req, res) => {
-  const list = await reports.jobList(actorOf(req), jobListQuerySchema.parse(req.query), null);
+  const list = await reports.jobList(actorOf(req), jobListQuerySchema.parse(req.query), null, 'export');
   sendCsv(res, 'jobs', list.shops, exportsCsv.jobsCsv(list));
 });
 

@@ -24,6 +24,8 @@ import {
   type WeeklyIntakeRow,
 } from '../../../shared/reports/schemas.js';
 import { invoiceTotals, type InvoiceLineInput } from '../../../shared/reports/money.js';
+import type { CustomerKind } from '../../../shared/schemas/registry.js';
+import { visibleCustomerNames } from '../registry/service.js';
 
 /**
  * The network at a glance. Every figure is one SQL aggregate over the shops the person may see
@@ -77,6 +79,26 @@ const numOrNull = (v: unknown): number | null => (v == null ? null : Number(v));
 const round2 = (v: number | null) => (v == null ? null : Math.round(v * 100) / 100);
 const iso = (v: unknown): string | null => (v == null ? null : new Date(v as string).toISOString());
 
+/** The job's customer as a list query selects it, for the registry's name rule (`visibleCustomerNames`). */
+const CUSTOMER_COLUMNS = 'c.id as customer_id, c.kind as customer_kind, c.name as customer_name, c.home_shop_id as customer_home_shop_id';
+
+const customerNamesOf = (actor: Actor, rows: Array<Record<string, unknown>>) =>
+  visibleCustomerNames(
+    actor,
+    rows.map((r) =>
+      r.customer_id
+        ? { id: r.customer_id as string, kind: r.customer_kind as CustomerKind, name: r.customer_name as string, homeShopId: (r.customer_home_shop_id as string) ?? null }
+        : null,
+    ),
+  );
+
+/** A private customer of a shop the viewer does not serve: no name, and `customerHidden` says one is there. */
+function customerOf(r: Record<string, unknown>, names: Map<string, string | null>): { customerName: string | null; customerHidden: boolean } {
+  if (!r.customer_id) return { customerName: null, customerHidden: false };
+  const name = names.get(r.customer_id as string) ?? null;
+  return { customerName: name, customerHidden: name === null };
+}
+
 // ---------------------------------------------------------------------------------------------
 // figures
 
@@ -109,10 +131,10 @@ export async function overdueCounts(scope: Scope) {
   return { total: byShop.reduce((a, b) => a + b.count, 0), byShop };
 }
 
-export async function overdueJobs(scope: Scope, limit: number | null): Promise<{ total: number; items: OverdueJob[] }> {
+export async function overdueJobs(actor: Actor, scope: Scope, limit: number | null): Promise<{ total: number; items: OverdueJob[] }> {
   const rows = await select<Record<string, unknown>>(
     `select j.id, j.number, j.shop_id, s.name as shop_name, j.stage, i.family, i.maker, i.model, i.serial,
-            c.name as customer_name, to_char(j.promised_on, 'YYYY-MM-DD') as promised_on,
+            ${CUSTOMER_COLUMNS}, to_char(j.promised_on, 'YYYY-MM-DD') as promised_on,
             ((cast(:asOf as timestamptz) at time zone s.time_zone)::date - j.promised_on) as days_late,
             u.name as assignee_name, count(*) over () as total
        from jobs j
@@ -125,12 +147,13 @@ export async function overdueJobs(scope: Scope, limit: number | null): Promise<{
       ${limit == null ? '' : 'limit :limit'}`,
     { ...scope, keptStages: PROMISE_KEPT_STAGES, limit },
   );
+  const names = await customerNamesOf(actor, rows);
   return {
     total: rows.length ? num(rows[0].total) : 0,
     items: rows.map((r) => ({
       id: r.id as string, number: num(r.number), shopId: r.shop_id as string, shopName: r.shop_name as string,
       stage: r.stage as JobStage, family: r.family as InstrumentFamily, maker: r.maker as string, model: (r.model as string) ?? null,
-      serial: r.serial as string, customerName: (r.customer_name as string) ?? null, promisedOn: r.promised_on as string,
+      serial: r.serial as string, ...customerOf(r, names), promisedOn: r.promised_on as string,
       daysLate: num(r.days_late), assigneeName: (r.assignee_name as string) ?? null,
     })),
   };
@@ -317,7 +340,7 @@ export async function dashboard(actor: Actor, shopId?: string): Promise<Dashboar
   const [openJobs, overdue, oldest, transfers, load, turn, weekly] = await Promise.all([
     openJobsByStage(scope),
     overdueCounts(scope),
-    overdueJobs(scope, 5),
+    overdueJobs(actor, scope, 5),
     transfersInFlight(scope, 50),
     benchLoad(scope),
     turnaround(scope),
@@ -338,18 +361,26 @@ export async function dashboard(actor: Actor, shopId?: string): Promise<Dashboar
 // ---------------------------------------------------------------------------------------------
 // lists behind the figures
 
-export async function overdueList(actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<OverdueJob>> {
-  const scope = await reportScope(actor, shopId);
-  return { shops: scope.shops, ...(await overdueJobs(scope, limit)) };
+type ReportAction = 'read' | 'export';
+
+export async function overdueList(
+  actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<OverdueJob>> {
+  const scope = await reportScope(actor, shopId, action);
+  return { shops: scope.shops, ...(await overdueJobs(actor, scope, limit)) };
 }
 
-export async function transferList(actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<TransferInFlight> & { late: number }> {
-  const scope = await reportScope(actor, shopId);
+export async function transferList(
+  actor: Actor, shopId: string | undefined, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<TransferInFlight> & { late: number }> {
+  const scope = await reportScope(actor, shopId, action);
   return { shops: scope.shops, ...(await transfersInFlight(scope, limit)) };
 }
 
-export async function jobList(actor: Actor, query: JobListQuery, limit: number | null = REPORT_LIST_LIMIT): Promise<ListAnswer<ReportJob>> {
-  const scope = await reportScope(actor, query.shop);
+export async function jobList(
+  actor: Actor, query: JobListQuery, limit: number | null = REPORT_LIST_LIMIT, action: ReportAction = 'read',
+): Promise<ListAnswer<ReportJob>> {
+  const scope = await reportScope(actor, query.shop, action);
   const where: string[] = ['j.network_id = :networkId', 'j.shop_id in (:shopIds)'];
   const stage = query.stage ?? (query.skill ? 'bench' : undefined);
   if (stage === 'open') where.push(`j.stage <> 'released'`);
@@ -364,7 +395,7 @@ export async function jobList(actor: Actor, query: JobListQuery, limit: number |
   if (query.week) where.push(`date_trunc('week', j.opened_at at time zone s.time_zone)::date = cast(:week as date)`);
   const rows = await select<Record<string, unknown>>(
     `select j.id, j.number, j.shop_id, s.name as shop_name, j.stage, i.family, i.maker, i.model, i.serial,
-            c.name as customer_name, sk.name as skill_name, j.estimated_hours, j.opened_at, j.ready_at,
+            ${CUSTOMER_COLUMNS}, sk.name as skill_name, j.estimated_hours, j.opened_at, j.ready_at,
             to_char(j.promised_on, 'YYYY-MM-DD') as promised_on, u.name as assignee_name, count(*) over () as total
        from jobs j
        join shops s on s.network_id = j.network_id and s.id = j.shop_id
@@ -380,13 +411,14 @@ export async function jobList(actor: Actor, query: JobListQuery, limit: number |
       readyWithin: query.readyWithin ?? null, week: query.week ?? null, limit,
     },
   );
+  const names = await customerNamesOf(actor, rows);
   return {
     shops: scope.shops,
     total: rows.length ? num(rows[0].total) : 0,
     items: rows.map((r) => ({
       id: r.id as string, number: num(r.number), shopId: r.shop_id as string, shopName: r.shop_name as string,
       stage: r.stage as JobStage, family: r.family as InstrumentFamily, maker: r.maker as string, model: (r.model as string) ?? null,
-      serial: r.serial as string, customerName: (r.customer_name as string) ?? null, skillName: (r.skill_name as string) ?? null,
+      serial: r.serial as string, ...customerOf(r, names), skillName: (r.skill_name as string) ?? null,
       estimatedHours: numOrNull(r.estimated_hours), openedAt: iso(r.opened_at)!, readyAt: iso(r.ready_at),
       promisedOn: (r.promised_on as string) ?? null, assigneeName: (r.assignee_name as string) ?? null,
     })),
@@ -412,6 +444,7 @@ export interface Invoice {
   shopCode: string;
   shopName: string;
   customerName: string | null;
+  customerHidden: boolean;
   instrument: string;
   serial: string;
   taxRateBasisPoints: number;
@@ -430,7 +463,7 @@ export async function invoices(actor: Actor, query: InvoiceQuery): Promise<{ sho
   const rows = await select<Record<string, unknown>>(
     `select j.id, j.number, s.code as shop_code, s.name as shop_name, s.tax_rate_basis_points,
             to_char(j.released_at at time zone s.time_zone, 'YYYY-MM-DD') as released_on,
-            c.name as customer_name, i.family, i.maker, i.model, i.serial,
+            ${CUSTOMER_COLUMNS}, i.family, i.maker, i.model, i.serial,
             li.id as line_id, li.kind, li.description, li.hours, li.rate_cents, li.quantity, li.unit_price_cents
        from jobs j
        join shops s on s.network_id = j.network_id and s.id = j.shop_id
@@ -448,6 +481,7 @@ export async function invoices(actor: Actor, query: InvoiceQuery): Promise<{ sho
     if (r.line_id) entry.lines.push(r);
     byJob.set(r.id as string, entry);
   }
+  const names = await customerNamesOf(actor, [...byJob.values()].map((e) => e.head));
   const familyLabel = (f: string) => f.replace(/_/g, ' ');
   return {
     shops: scope.shops,
@@ -461,7 +495,7 @@ export async function invoices(actor: Actor, query: InvoiceQuery): Promise<{ sho
       const totals = invoiceTotals(inputs, taxRate);
       return {
         jobId: head.id as string, jobNumber: num(head.number), releasedOn: head.released_on as string,
-        shopCode: head.shop_code as string, shopName: head.shop_name as string, customerName: (head.customer_name as string) ?? null,
+        shopCode: head.shop_code as string, shopName: head.shop_name as string, ...customerOf(head, names),
         instrument: [familyLabel(head.family as string), head.maker, head.model].filter(Boolean).join(' · '),
         serial: head.serial as string, taxRateBasisPoints: taxRate,
         lines: lines.map((l, i) => ({

@@ -1,3 +1,4 @@
+import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
 import type { ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
@@ -84,7 +85,7 @@ export function JobRoute() {
           <div>
             <dt className="text-ink-600">Customer</dt>
             <dd className="font-semibold">
-              {d.customer?.name ?? 'Rental fleet'}
+              {d.customer ? (d.customer.name ?? PRIVATE_CUSTOMER_LABEL) : 'Rental fleet'}
               {d.customer?.contactShown && (d.customer.phone || d.customer.email) ? (
                 <span className="block font-normal text-ink-800">{[d.customer.phone, d.customer.email].filter(Boolean).join(' · ')}</span>
               ) : null}

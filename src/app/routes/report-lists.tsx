@@ -12,10 +12,11 @@ import { JobsTable } from '@/features/reports/components/jobs-table';
 import { OverdueTable } from '@/features/reports/components/overdue-table';
 import { TransfersTable } from '@/features/reports/components/transfers-table';
 import { useDocumentTitle } from '@/lib/use-document-title';
-import { useReportScope } from './report-scope';
+import { useMayExport, useReportScope } from './report-scope';
 
 function ListPage({ title, description, csv, children }: { title: string; description: ReactNode; csv: string; children: ReactNode }) {
   const { shops, shop, setShop, shopName } = useReportScope();
+  const mayExport = useMayExport(shop);
   useDocumentTitle(title);
   return (
     <>
@@ -25,7 +26,7 @@ function ListPage({ title, description, csv, children }: { title: string; descri
         actions={
           <div className="flex flex-wrap items-end gap-3">
             <ScopePicker shops={shops} value={shop} onChange={setShop} />
-            <CsvLink href={csv} description={title} />
+            {mayExport ? <CsvLink href={csv} description={title} /> : null}
           </div>
         }
       />

@@ -28,3 +28,14 @@ export function useReportScope(action: 'read' | 'export' = 'read') {
   );
   return { shops, shop, setShop, shopName: shops.find((s) => s.id === shop)?.name };
 }
+
+/**
+ * Whether the person may download the CSV files of this scope: a file needs `export` on Report (the server
+ * refuses it otherwise), which technicians and auditors lack even where they read the figures.
+ */
+export function useMayExport(shop: string | undefined): boolean {
+  const me = useSession();
+  const ability = useAppAbility();
+  const exportable = me.shops.filter((s) => ability.can('export', subject('Report', { shopId: s.id })));
+  return shop ? exportable.some((s) => s.id === shop) : exportable.length > 0;
+}

@@ -17,7 +17,7 @@ import { figureLink } from '@/features/dashboard/components/chart-figure';
 import { CsvLink } from '@/features/reports/components/csv-link';
 import { InvoiceExport } from '@/features/reports/components/invoice-export';
 import { useDocumentTitle } from '@/lib/use-document-title';
-import { useReportScope } from './report-scope';
+import { useMayExport, useReportScope } from './report-scope';
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
@@ -40,6 +40,9 @@ function Section({ id, title, description, csv, children }: { id: string; title:
 export function ReportsRoute() {
   const { shops, shop, setShop, shopName } = useReportScope();
   const exporter = useReportScope('export');
+  const mayExport = useMayExport(shop);
+  // technicians and auditors read the tables; the files are for those who may export them
+  const csvLink = (href: string, description: string) => (mayExport ? <CsvLink href={href} description={description} /> : null);
   const [days, setDays] = useState<TurnaroundWindow>(90);
   useDocumentTitle('Reports');
   const figures = useQuery(dashboardQueryOptions(shop));
@@ -58,14 +61,14 @@ export function ReportsRoute() {
     const scopeName = shopName ?? 'all shops';
     body = (
       <div className="flex flex-col gap-6">
-        <Section id="open-jobs" title="Open jobs by stage" csv={<CsvLink href={csvLinks.report('open-jobs', shop)} description={`open jobs by stage, ${scopeName}`} />}>
+        <Section id="open-jobs" title="Open jobs by stage" csv={csvLink(csvLinks.report('open-jobs', shop), `open jobs by stage, ${scopeName}`)}>
           <OpenJobsTable report={report} />
         </Section>
         <Section
           id="overdue"
           title="Overdue promises"
           description={`${plural(report.overdue.total, 'job is', 'jobs are')} past the promised date and not ready (each shop’s own calendar).`}
-          csv={<CsvLink href={csvLinks.report('overdue', shop)} description={`overdue promises, ${scopeName}`} />}
+          csv={csvLink(csvLinks.report('overdue', shop), `overdue promises, ${scopeName}`)}
         >
           <Link className={figureLink} to={reportLinks.overdue(shop)}>Open the list of overdue jobs</Link>
         </Section>
@@ -73,11 +76,11 @@ export function ReportsRoute() {
           id="transfers"
           title="Transfers in flight"
           description={`${plural(report.transfersInFlight.total, 'instrument', 'instruments')} on the road, ${report.transfersInFlight.late} past the expected arrival.`}
-          csv={<CsvLink href={csvLinks.report('transfers', shop)} description={`transfers in flight, ${scopeName}`} />}
+          csv={csvLink(csvLinks.report('transfers', shop), `transfers in flight, ${scopeName}`)}
         >
           <Link className={figureLink} to={reportLinks.transfers(shop)}>Open the list of transfers in flight</Link>
         </Section>
-        <Section id="bench-load" title="Bench load per skill" csv={<CsvLink href={csvLinks.report('bench-load', shop)} description={`bench load, ${scopeName}`} />}>
+        <Section id="bench-load" title="Bench load per skill" csv={csvLink(csvLinks.report('bench-load', shop), `bench load, ${scopeName}`)}>
           <BenchLoadTable report={report} />
         </Section>
         <Section
@@ -87,7 +90,7 @@ export function ReportsRoute() {
           csv={
             <>
               <WindowPicker value={days} onChange={setDays} />
-              <CsvLink href={csvLinks.report('turnaround', shop)} description={`turnaround, ${scopeName}`} />
+              {csvLink(csvLinks.report('turnaround', shop), `turnaround, ${scopeName}`)}
             </>
           }
         >
@@ -96,7 +99,7 @@ export function ReportsRoute() {
             <TurnaroundTable report={report} days={days} by="family" shop={shop} />
           </div>
         </Section>
-        <Section id="weekly-intake" title="Weekly intake, last 52 weeks" csv={<CsvLink href={csvLinks.report('weekly-intake', shop)} description={`weekly intake, ${scopeName}`} />}>
+        <Section id="weekly-intake" title="Weekly intake, last 52 weeks" csv={csvLink(csvLinks.report('weekly-intake', shop), `weekly intake, ${scopeName}`)}>
           <details>
             <summary className="min-h-11 cursor-pointer py-2 font-semibold text-accent-700">Show all 52 weeks</summary>
             <WeeklyIntakeTable report={report} shop={shop} />
@@ -110,7 +113,7 @@ export function ReportsRoute() {
     <>
       <PageHeader
         title="Reports"
-        description={`${shopName ?? 'All your shops'}: the dashboard’s figures as tables, each with a CSV file.`}
+        description={`${shopName ?? 'All your shops'}: the dashboard’s figures as tables${mayExport ? ', each with a CSV file' : ''}.`}
         actions={
           <div className="flex flex-wrap items-end gap-3">
             <ScopePicker shops={shops} value={shop} onChange={setShop} />

@@ -20,6 +20,13 @@ const readRoutes = [
   '/api/reports/overdue',
   '/api/reports/transfers',
   '/api/reports/jobs',
+];
+
+// A CSV is a copy that leaves the app: every report file needs `export` on Report, like the invoices.
+// Technicians and auditors read the figures on screen but download none of them.
+const exportOnly: RouteCase['allow'] = { owner: ['own', 'otherShop'], regional_manager: ['own'], front_desk: ['own'] };
+
+const csvRoutes = [
   '/api/reports/open-jobs.csv',
   '/api/reports/overdue.csv',
   '/api/reports/transfers.csv',
@@ -37,11 +44,18 @@ export const cases: RouteCase[] = [
       build: ({ world, scope }) => ({ path, query: shopQuery(scope, world.ids) }),
     }),
   ),
+  ...csvRoutes.map(
+    (path): RouteCase => ({
+      route: `GET ${path}`,
+      allow: exportOnly,
+      build: ({ world, scope }) => ({ path, query: shopQuery(scope, world.ids) }),
+    }),
+  ),
   // Invoices carry customers and money: the owner, regional managers and front desk (who release and
   // bill) may export them; technicians and auditors may not.
   {
     route: 'GET /api/reports/invoices.csv',
-    allow: { owner: ['own', 'otherShop'], regional_manager: ['own'], front_desk: ['own'] },
+    allow: exportOnly,
     build: ({ world, scope }) => ({
       path: '/api/reports/invoices.csv',
       query: { ...shopQuery(scope, world.ids), from: '2026-01-01', to: '2026-12-31' },

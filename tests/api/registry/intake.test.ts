@@ -70,17 +70,77 @@ describe('POST /api/intake and openJob', () => {
       networkId, family: 'trumpet', maker: 'Brassmere', serial: 'BM.12.613', ownerKind: 'school', ownerCustomerId: owner.id,
       currentShopId: shopB.id, status: 'in_service',
     });
-    // the owner on record may be named even though shop A has never served them
+    // shop A has never served the owner on record: the job opens without naming them
     const res = await request(app).post('/api/intake').set('Cookie', deskCookie)
-      .send(body({ instrument: { id: known.id }, customer: { id: owner.id } })).expect(201);
+      .send(body({ instrument: { id: known.id }, customer: null })).expect(201);
     await known.reload();
     expect(known).toMatchObject({ currentShopId: shopA.id, status: 'in_shop' });
     const job = await Job.findOne({ where: { networkId, id: res.body.job.id } });
-    expect(job!.customerId).toBe(owner.id);
+    expect(job!.customerId).toBeNull();
 
     const second = await request(app).post('/api/intake').set('Cookie', deskCookie)
       .send(body({ instrument: { id: known.id }, customer: null })).expect(409);
     expect(second.body.error).toMatchObject({ code: 'open_job_exists', jobNumber: res.body.job.number });
+  });
+
+  describe('naming a customer of another shop (the attack: a job would make the shop a serving shop and open the contact)', () => {
+    let stranger: Customer;
+    let strangersFlute: Instrument;
+
+    beforeAll(async () => {
+      stranger = await Customer.create({
+        networkId, kind: 'person', name: 'Oriane Pelletwhistle', email: 'oriane.pelletwhistle@mail.test', phone: '+1 555 0177',
+        homeShopId: shopB.id,
+      });
+      strangersFlute = await Instrument.create({
+        networkId, family: 'flute', maker: 'Quellstone', serial: `QF-${Math.floor(Math.random() * 1e8)}`, ownerKind: 'customer',
+        ownerCustomerId: stranger.id, currentShopId: shopB.id, status: 'in_service',
+      });
+    });
+
+    const contactStillHidden = async () => {
+      expect(await Job.count({ where: { networkId, customerId: stranger.id } })).toBe(0);
+      const page = await request(app).get(`/api/instruments/${strangersFlute.id}`).set('Cookie', deskCookie).expect(200);
+      expect(page.body.owner).toMatchObject({ id: stranger.id, name: null, contactVisible: false, contact: null });
+      expect(page.text).not.toContain('Pelletwhistle');
+      expect(page.text).not.toContain('oriane.pelletwhistle@mail.test');
+      const found = await request(app).get('/api/customers?q=Pelletwhistle').set('Cookie', deskCookie).expect(200);
+      expect(found.body.customers).toEqual([]);
+    };
+
+    it('a new instrument owned by another shop’s private customer: refused, nothing created', async () => {
+      const attempt = body({ customer: { id: stranger.id } });
+      const res = await request(app).post('/api/intake').set('Cookie', deskCookie).send(attempt).expect(404);
+      expect(res.body.error.fields).toHaveProperty('customer');
+      expect(res.text).not.toContain('Pelletwhistle');
+      const serial = (attempt.instrument as { new: { serial: string } }).new.serial;
+      expect(await Instrument.count({ where: { networkId, serial } })).toBe(0);
+      await contactStillHidden();
+    });
+
+    it('the customer’s own instrument, naming them as the owner on record: refused, the instrument stays where it was', async () => {
+      const res = await request(app).post('/api/intake').set('Cookie', deskCookie)
+        .send(body({ instrument: { id: strangersFlute.id }, customer: { id: stranger.id } })).expect(404);
+      expect(res.body.error.fields).toHaveProperty('customer');
+      await strangersFlute.reload();
+      expect(strangersFlute).toMatchObject({ currentShopId: shopB.id, status: 'in_service' });
+      expect(await Job.count({ where: { networkId, instrumentId: strangersFlute.id } })).toBe(0);
+      await contactStillHidden();
+    });
+
+    it('a fleet import may not name them as the owner either', async () => {
+      const res = await request(app).post('/api/instruments/import').set('Cookie', deskCookie)
+        .send({ shopId: shopA.id, ownerKind: 'customer', ownerCustomerId: stranger.id, rows: [{ serial: 'IMP-1', maker: 'Quellstone', family: 'flute' }] })
+        .expect(400);
+      expect(res.body.error.fields).toHaveProperty('ownerCustomerId');
+      expect(await Instrument.count({ where: { networkId, ownerCustomerId: stranger.id } })).toBe(1);
+    });
+
+    it('the home shop’s desk still names them', async () => {
+      const res = await request(app).post('/api/intake').set('Cookie', deskBCookie)
+        .send(body({ shopId: shopB.id, instrument: { id: strangersFlute.id }, customer: { id: stranger.id } })).expect(201);
+      expect(res.body.customerId).toBe(stranger.id);
+    });
   });
 
   it('refuses a second registration of the same serial and maker, pointing at the first', async () => {

@@ -68,7 +68,7 @@ const report: DashboardReport = {
     oldest: [
       {
         id: 'job-77', number: 77, shopId: fen.id, shopName: fen.name, stage: 'on_bench', family: 'clarinet', maker: 'Ashgrove',
-        model: 'C-1', serial: 'AG 100', customerName: null, promisedOn: '2026-11-27', daysLate: 4, assigneeName: null,
+        model: 'C-1', serial: 'AG 100', customerName: null, customerHidden: false, promisedOn: '2026-11-27', daysLate: 4, assigneeName: null,
       },
     ],
   },
@@ -160,6 +160,16 @@ describe('lists behind the figures', () => {
     expect(screen.getByRole('link', { name: /Download CSV/ })).toHaveAttribute('href', `/api/reports/overdue.csv?shop=${fen.id}`);
   });
 
+  it('someone who reads the figures but may not export them sees the list without a CSV link', async () => {
+    const readOnly = [{ action: 'read', subject: 'Report', conditions: { shopId: { $in: [fen.id, quay.id] } } }];
+    renderAt(`/reports/overdue?scope=${fen.id}`, {
+      'GET /api/me': { status: 200, body: me(readOnly, 'technician') },
+      'GET /api/reports/overdue': { status: 200, body: { shops: [reportShop(fen, 'FEN')], total: 0, items: [] } },
+    });
+    expect(await screen.findByRole('heading', { name: 'Nothing overdue' })).toBeInTheDocument();
+    expect(screen.queryByRole('link', { name: /Download CSV/ })).toBeNull();
+  });
+
   it('the jobs list says which figure it is behind and offers the same rows as CSV', async () => {
     renderAt(`/reports/jobs?scope=${fen.id}&stage=on_bench`, {
       'GET /api/me': { status: 200, body: me(managerRules) },
@@ -171,7 +181,7 @@ describe('lists behind the figures', () => {
           items: [
             {
               id: 'job-9', number: 9, shopId: fen.id, shopName: fen.name, stage: 'on_bench', family: 'flute', maker: 'Ashgrove', model: null,
-              serial: 'F 9', customerName: null, skillName: 'Flutes', estimatedHours: 5, openedAt: '2026-11-30T06:30:00.000Z', readyAt: null,
+              serial: 'F 9', customerName: null, customerHidden: false, skillName: 'Flutes', estimatedHours: 5, openedAt: '2026-11-30T06:30:00.000Z', readyAt: null,
               promisedOn: null, assigneeName: null,
             },
           ],

@@ -26,7 +26,7 @@ export function ApprovalForm({ detail }: { detail: JobDetail }) {
     <div className="flex flex-col gap-4">
       {approval ? (
         <p className="rounded-lg bg-accent-50 px-3 py-2 text-accent-800">
-          Approved by <strong>{approval.byName}</strong> ({ESTIMATE_APPROVAL_METHOD_LABELS[approval.method].toLowerCase()}),{' '}
+          Approved {approval.byName ? <>by <strong>{approval.byName}</strong> </> : null}({ESTIMATE_APPROVAL_METHOD_LABELS[approval.method].toLowerCase()}),{' '}
           {formatInShop(approval.at, detail.shop.timeZone)}.
         </p>
       ) : (

@@ -1,3 +1,4 @@
+import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
 import { Link } from 'react-router-dom';
 import type { JobSummary } from '@shared/jobs/dto';
 import { familyLabel, formatPromise } from '../format';
@@ -33,7 +34,7 @@ export function JobList({ jobs, linkTo, showShop = false, label }: JobListProps)
             </p>
             <p className="text-sm text-ink-600">
               Serial <span className="font-mono">{job.instrument.serial}</span>
-              {job.customerName ? ` · ${job.customerName}` : ''}
+              {job.customerName ? ` · ${job.customerName}` : job.customerHidden ? ` · ${PRIVATE_CUSTOMER_LABEL}` : ''}
             </p>
             {job.complaint ? <p className="line-clamp-2 text-sm text-ink-800">{job.complaint}</p> : null}
             <dl className="mt-auto grid grid-cols-2 gap-x-3 gap-y-1 pt-2 text-sm">

@@ -5,7 +5,7 @@ import { Button } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import { ErrorState } from '@/components/ui/error-state';
 import { isApiError } from '@/lib/api-client';
-import { IMPORT_FIELDS, type ImportFieldKey, type ImportRowResult } from '@shared/schemas/registry';
+import { HELD_ELSEWHERE_MESSAGE, IMPORT_FIELDS, type ImportFieldKey, type ImportRowResult } from '@shared/schemas/registry';
 import {
   applyMapping,
   autoMapColumns,
@@ -52,6 +52,7 @@ export function FleetImport({ shop }: FleetImportProps) {
   const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
   const [outcome, setOutcome] = useState<{ results: ImportRowResult[]; counts: ImportBatchResult['counts'] } | null>(null);
   const [failure, setFailure] = useState<unknown>(null);
+  const [check, setCheck] = useState<{ state: 'running' } | { state: 'done'; result: ImportBatchResult } | { state: 'failed'; error: unknown } | null>(null);
 
   const mapped: MappedRow[] = useMemo(() => (file && mapping ? applyMapping(file.rows, mapping) : []), [file, mapping]);
   const problems = useMemo(() => checkRows(mapped), [mapped]);
@@ -64,6 +65,7 @@ export function FleetImport({ shop }: FleetImportProps) {
     setFailure(null);
     setProgress(null);
     setReadError(null);
+    setCheck(null);
     if (!chosen) return;
     Papa.parse<Record<string, unknown>>(chosen, {
       header: true,
@@ -87,22 +89,43 @@ export function FleetImport({ shop }: FleetImportProps) {
     });
   };
 
+  const emptyCounts = (): ImportBatchResult['counts'] => ({ created: 0, updated: 0, unchanged: 0, held_elsewhere: 0, error: 0 });
+  const batchInput = (rows: MappedRow[], dryRun: boolean) => ({
+    shopId: shop.id,
+    ownerKind: owner.kind,
+    ownerCustomerId: owner.kind === 'rental_fleet' ? undefined : owner.customerId,
+    rows,
+    dryRun,
+  });
+
+  /** The preview's check against the registry: what each row would do, nothing written. */
+  const runCheck = async () => {
+    setCheck({ state: 'running' });
+    const results: ImportRowResult[] = [];
+    const counts = emptyCounts();
+    try {
+      for (const batch of chunk(mapped, BATCH_SIZE)) {
+        const answer = await registryMutations.importBatch(batchInput(batch, true));
+        results.push(...answer.results);
+        for (const key of Object.keys(counts) as Array<keyof typeof counts>) counts[key] += answer.counts[key];
+      }
+      setCheck({ state: 'done', result: { results, counts, dryRun: true } });
+    } catch (error) {
+      setCheck({ state: 'failed', error });
+    }
+  };
+
   const runImport = async () => {
     if (!file || !mapping) return;
     const batches = chunk(mapped, BATCH_SIZE);
     const results: ImportRowResult[] = [];
-    const counts = { created: 0, updated: 0, unchanged: 0, error: 0 };
+    const counts = emptyCounts();
     setFailure(null);
     setOutcome(null);
     setProgress({ done: 0, total: mapped.length });
     try {
       for (const batch of batches) {
-        const answer = await registryMutations.importBatch({
-          shopId: shop.id,
-          ownerKind: owner.kind,
-          ownerCustomerId: owner.kind === 'rental_fleet' ? undefined : owner.customerId,
-          rows: batch,
-        });
+        const answer = await registryMutations.importBatch(batchInput(batch, false));
         results.push(...answer.results);
         for (const key of Object.keys(counts) as Array<keyof typeof counts>) counts[key] += answer.counts[key];
         setProgress((p) => ({ done: (p?.done ?? 0) + batch.length, total: mapped.length }));
@@ -118,6 +141,7 @@ export function FleetImport({ shop }: FleetImportProps) {
   };
 
   const errorRows = outcome?.results.filter((r) => r.outcome === 'error') ?? [];
+  const heldRows = outcome?.results.filter((r) => r.outcome === 'held_elsewhere') ?? [];
 
   return (
     <div className="flex flex-col gap-6">
@@ -145,7 +169,7 @@ export function FleetImport({ shop }: FleetImportProps) {
         <>
           <Card as="section" aria-labelledby="owner-heading" className="flex flex-col gap-4">
             <CardTitle id="owner-heading">2. Whose instruments</CardTitle>
-            <OwnerPicker value={owner} onChange={setOwner} disabled={running} />
+            <OwnerPicker value={owner} onChange={(o) => { setOwner(o); setCheck(null); }} disabled={running} />
           </Card>
 
           <Card as="section" aria-labelledby="mapping-heading" className="flex flex-col gap-4">
@@ -158,7 +182,10 @@ export function FleetImport({ shop }: FleetImportProps) {
                   required={field.required}
                   value={mapping[field.key] ?? ''}
                   disabled={running}
-                  onChange={(e) => setMapping({ ...mapping, [field.key as ImportFieldKey]: e.target.value || null })}
+                  onChange={(e) => {
+                    setMapping({ ...mapping, [field.key as ImportFieldKey]: e.target.value || null });
+                    setCheck(null);
+                  }}
                 >
                   <option value="">— not in the file —</option>
                   {file.headers.map((h) => <option key={h} value={h}>{h}</option>)}
@@ -195,6 +222,21 @@ export function FleetImport({ shop }: FleetImportProps) {
                 {problems.length ? ` ${problems.length} need attention and will be reported, not imported:` : ''}
               </p>
               {problems.length ? <ProblemList rows={problems.slice(0, 20).map((p) => ({ row: p.row, errors: p.errors }))} /> : null}
+              <div className="flex flex-col gap-2">
+                <Button variant="secondary" className="self-start" onClick={() => void runCheck()} disabled={running || check?.state === 'running' || mapped.length === 0}>
+                  {check?.state === 'running' ? 'Checking…' : 'Check against the registry'}
+                </Button>
+                {check?.state === 'done' ? (
+                  <>
+                    <p className="text-ink-800">
+                      The import would register {check.result.counts.created} new and update {check.result.counts.updated}; {check.result.counts.unchanged} are
+                      already up to date, {check.result.counts.held_elsewhere} are held by another shop and would not be changed, {check.result.counts.error} have errors.
+                    </p>
+                    <HeldList rows={check.result.results.filter((r) => r.outcome === 'held_elsewhere')} />
+                  </>
+                ) : null}
+                {check?.state === 'failed' ? <ErrorState title="The rows could not be checked" error={check.error} onRetry={() => void runCheck()} /> : null}
+              </div>
               <div className="flex flex-col gap-3">
                 <Button size="lg" className="self-start" onClick={() => void runImport()} disabled={running || mapped.length === 0}>
                   {running ? 'Importing…' : outcome ? 'Import the file again' : `Import ${mapped.length} rows`}
@@ -238,12 +280,27 @@ export function FleetImport({ shop }: FleetImportProps) {
           <CardTitle id="result-heading">Import finished</CardTitle>
           <p className="text-ink-950">
             {outcome.counts.created} new, {outcome.counts.updated} updated, {outcome.counts.unchanged} already up to date,{' '}
-            {outcome.counts.error} with errors.
+            {outcome.counts.held_elsewhere} held by another shop and not changed, {outcome.counts.error} with errors.
           </p>
+          <HeldList rows={heldRows} />
           {errorRows.length ? <ProblemList rows={errorRows.map((r) => ({ row: r.row, errors: r.errors ?? {} }))} /> : null}
         </Card>
       ) : null}
     </div>
+  );
+}
+
+/** Rows naming an instrument another shop holds: reported, never changed. */
+function HeldList({ rows }: { rows: ImportRowResult[] }) {
+  if (!rows.length) return null;
+  return (
+    <ul aria-label="Rows held by another shop" className="flex flex-col gap-1 text-sm">
+      {rows.slice(0, 50).map((r) => (
+        <li key={r.row} className="rounded-lg bg-paper-100 px-3 py-1.5 text-ink-950">
+          <strong>Row {r.row}</strong>: {r.message ?? HELD_ELSEWHERE_MESSAGE}{r.heldBy ? ` (${r.heldBy.name})` : ''}
+        </li>
+      ))}
+    </ul>
   );
 }
 

@@ -1,3 +1,4 @@
+import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
 import { useMutation, useQuery, useQueryClient, type UseQueryResult } from '@tanstack/react-query';
 import { useEffect, useRef, useState, type FormEvent, type ReactNode, type RefObject } from 'react';
 import { Link } from 'react-router-dom';
@@ -260,7 +261,7 @@ const pick = (fields: Record<string, string>, keys: string[]) =>
 
 function describeCustomer(choice: CustomerChoice | null): string {
   if (!choice || choice.kind === 'none') return 'none (rental fleet check-in)';
-  if (choice.kind === 'existing') return choice.customer.name ?? 'the owner on record';
+  if (choice.kind === 'existing') return choice.customer.name ?? PRIVATE_CUSTOMER_LABEL;
   return `${choice.data.name} (new)`;
 }
 
@@ -422,13 +423,21 @@ function CustomerPicker({
 
   return (
     <div className="flex flex-col gap-4">
-      {ownerOnRecord ? (
+      {/* Only a customer of the person's own shops may be named (the server refuses anyone else): naming a
+          stranger would make this shop one that serves them and open their contact details to it. */}
+      {ownerOnRecord && ownerOnRecord.contactVisible ? (
         <ChoiceRow
           checked={selectedId === ownerOnRecord.id && !adding}
           onSelect={() => choose({ kind: 'existing', customer: ownerOnRecord })}
-          title={`The owner on record: ${ownerOnRecord.name ?? 'private customer'}`}
-          detail={ownerOnRecord.contactVisible ? ownerOnRecord.contact?.phone ?? ownerOnRecord.contact?.email ?? '' : 'Contact details are kept by the shops that served them.'}
+          title={`The owner on record: ${ownerOnRecord.name ?? 'Private customer'}`}
+          detail={ownerOnRecord.contact?.phone ?? ownerOnRecord.contact?.email ?? ''}
         />
+      ) : null}
+      {ownerOnRecord && !ownerOnRecord.contactVisible ? (
+        <p className="rounded-xl border border-paper-200 bg-paper-50 px-4 py-3 text-sm text-ink-800">
+          The owner on record ({ownerOnRecord.name ?? 'a private customer'}) is a customer of another shop; their details stay with
+          the shops that served them. Find the person among your shops’ customers, add them here, or continue without a customer.
+        </p>
       ) : null}
       {allowNone ? (
         <ChoiceRow

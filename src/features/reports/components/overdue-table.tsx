@@ -1,3 +1,4 @@
+import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
 import { useQuery } from '@tanstack/react-query';
 import { reportLinks } from '@shared/reports/links';
 import { Link } from 'react-router-dom';
@@ -45,7 +46,7 @@ export function OverdueTable({ shop }: { shop?: string }) {
                       {INSTRUMENT_FAMILY_LABELS[j.family]} · {j.maker} {j.model ?? ''}
                       <span className="block text-xs text-ink-600">Serial {j.serial}</span>
                     </td>
-                    <td className={td}>{j.customerName ?? 'Rental fleet'}</td>
+                    <td className={td}>{j.customerName ?? (j.customerHidden ? PRIVATE_CUSTOMER_LABEL : 'Rental fleet')}</td>
                     <td className={td}>{JOB_STAGE_LABELS[j.stage]}</td>
                     <td className={td}>{formatIsoDate(j.promisedOn)}</td>
                     <td className={`${tdNum} font-semibold text-danger-700`}>{j.daysLate}</td>
