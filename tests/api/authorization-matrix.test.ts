@@ -146,6 +146,14 @@ function withField(world: World, built: BuiltRequest, field: IdField, d: Foreign
   const [where, ...path] = field.split('.');
   const copy: BuiltRequest = structuredClone({ ...built });
   if (where === 'path') {
+    // `path.<n>`: the n-th segment of the path (a fresh record the case made, e.g. a job's line)
+    if (/^\d+$/.test(path[0])) {
+      const segments = copy.path.split('/');
+      expect(segments[Number(path[0])], `${field}: the path has no such segment`).toMatch(UUID);
+      segments[Number(path[0])] = value;
+      copy.path = segments.join('/');
+      return copy;
+    }
     const ownId = world.ids.own[d.kind];
     expect(copy.path, `${field}: the path carries no ${d.kind} of the own scope`).toContain(ownId);
     copy.path = copy.path.replace(ownId, value);

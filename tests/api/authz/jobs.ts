@@ -123,6 +123,8 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/line-items/${item.id}`, body: { quantity: 2 } };
     },
     allow: workJobs,
+    // one's own job, the line of a job of another shop or network
+    foreignIds: { 'path.5': { kind: 'lineItem', otherShop: 'refused' } },
   },
   {
     route: 'DELETE /api/jobs/:jobId/line-items/:itemId',
@@ -132,6 +134,7 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/line-items/${item.id}` };
     },
     allow: workJobs,
+    foreignIds: { 'path.5': { kind: 'lineItem', otherShop: 'refused' } },
   },
   {
     route: 'POST /api/jobs/:jobId/approval',
@@ -156,6 +159,7 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/time-logs/${log.id}` };
     },
     allow: workJobs,
+    foreignIds: { 'path.5': { kind: 'timeLog', otherShop: 'refused' } },
   },
   {
     route: 'GET /api/service-catalog',
@@ -236,6 +240,12 @@ export async function extendWorld(world: World) {
     world.ids[scope].jobsOpener = opener.id;
     const item = await ServiceCatalogItem.create({ networkId, name: `Leak test ${uniq()}`, family: null, standardHours: 1 });
     world.ids[scope].catalogItem = item.id;
+    // a line and a time entry on the scope's job, for cells that name them under another job
+    const jobId = world.ids[scope].job;
+    const line = await JobLineItem.create({ networkId, jobId, kind: 'part', description: 'Pad cup shim', quantity: 1, unitPriceCents: 300 });
+    world.ids[scope].lineItem = line.id;
+    const log = await TimeLog.create({ networkId, jobId, userId: opener.id, minutes: 20, workedOn: new Date().toISOString().slice(0, 10) });
+    world.ids[scope].timeLog = log.id;
   }
 }
 

@@ -47,7 +47,7 @@ export interface World {
  */
 export type IdKind =
   | 'shop' | 'destinationShop' | 'partsShop' | 'instrument' | 'registryInstrument' | 'customer' | 'foreignCustomer'
-  | 'user' | 'pad' | 'attachment' | 'job' | 'skill' | 'relayRun' | 'transfer' | 'catalogItem';
+  | 'user' | 'pad' | 'attachment' | 'job' | 'skill' | 'relayRun' | 'transfer' | 'catalogItem' | 'lineItem' | 'timeLog';
 
 /**
  * One id parameter of a route. `otherShop` says what happens when the id is of another shop of the
@@ -67,7 +67,8 @@ export interface ForeignId {
 /**
  * Where the id goes: `body.<path>` or `query.<name>`; a dotted path reaches into objects and arrays
  * (`body.roles.0.shopId`). `path.<name>` swaps the own scope's id of that kind inside the URL path
- * (`/api/stock/<own shop>/parts/<another network's part>`).
+ * (`/api/stock/<own shop>/parts/<another network's part>`); `path.<n>` swaps the n-th path segment
+ * (`/api/jobs/<own job>/line-items/<another job's line>`).
  */
 export type IdField = `body.${string}` | `query.${string}` | `path.${string}`;
 
