@@ -48,10 +48,19 @@ export async function buildWorld(app: Express): Promise<World> {
   const skillB = await Skill.create({ networkId: networkB.id, code: `skill_${uniq()}`, name: 'Low saxophones' });
 
   const ids = {} as Record<Scope, ScopedIds>;
+  const secrets = {} as World['secrets'];
+  const scopeOf = (shopId: string): Scope => (shopId === own.id ? 'own' : shopId === otherShop.id ? 'otherShop' : 'otherNetwork');
   const place = async (networkId: string, shopId: string, destinationId: string, actorId: string, skillId: string) => {
     const staff = await makeUser(networkId, [{ shopId, role: 'technician' }]);
     const membership = await Membership.findOne({ where: { networkId, userId: staff.id } });
-    const customer = await Customer.create({ networkId, kind: 'person', name: `Player ${uniq()}`, email: `player-${uniq()}@mail.test`, phone: '+1 555 0100', homeShopId: shopId });
+    // a private customer (kind 'person'): name and contact stay with the shops that serve them
+    const digits = () => String(Math.floor(1000 + Math.random() * 9000));
+    const customer = await Customer.create({
+      networkId, kind: 'person', name: `Player ${uniq()}`, email: `player-${uniq()}@mail.test`, phone: `+1 555 ${digits()} ${digits()}`,
+      address: `${digits()} Reedmaker Lane ${uniq()}`, homeShopId: shopId,
+    });
+    // a second one, only ever named in mixed-scope cells, so a wrongly accepted id never changes what the first one's shops see
+    const foreignCustomer = await Customer.create({ networkId, kind: 'person', name: `Caller ${uniq()}`, email: `caller-${uniq()}@mail.test`, homeShopId: shopId });
     const { instrument, job } = await makeInstrumentWithJob(networkId, shopId, actorId);
     await instrument.update({ ownerKind: 'customer', ownerCustomerId: customer.id });
     await job.update({ customerId: customer.id });
@@ -71,7 +80,12 @@ export async function buildWorld(app: Express): Promise<World> {
     const relayRun = await RelayRun.create({
       networkId, fromShopId: shopId, toShopId: destinationId, weekdays: [2, 4], departureTime: '07:30:00', transitHours: 5,
     });
+    secrets[scopeOf(shopId)] = {
+      customer: [customer.name, customer.email!, customer.phone!, customer.address!],
+      staffEmail: staff.email,
+    };
     return {
+      foreignCustomer: foreignCustomer.id,
       shop: shopId, destinationShop: destinationId, user: staff.id, membership: membership!.id, customer: customer.id, instrument: instrument.id,
       job: job.id, transfer: transfer.id, attachment: attachment.id, invitation: invitation.id, skill: skillId,
       relayRun: relayRun.id,
@@ -85,5 +99,5 @@ export async function buildWorld(app: Express): Promise<World> {
   const cookies = {} as Record<Role, string>;
   for (const role of ['owner', ...SHOP_ROLES] as Role[]) cookies[role] = await signInAs(role);
 
-  return { networkA: networkA.id, networkB: networkB.id, ids, cookies, users, emails, signInAs };
+  return { networkA: networkA.id, networkB: networkB.id, ids, cookies, users, emails, signInAs, secrets };
 }

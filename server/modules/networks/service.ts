@@ -4,6 +4,7 @@ import { sequelize } from '../../lib/db.js';
 import { Membership, RelayRun, Shop, ShopSkill, Skill, TechnicianSkill, User } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
+import { isOwner } from '../../../shared/auth/ability.js';
 import { badRequest, conflict, notFound } from '../../lib/errors.js';
 import { OPEN_JOB_STAGES, type IsoWeekday } from '../../../shared/domain.js';
 import type {
@@ -60,7 +61,8 @@ export interface ShopDetail extends ShopView {
   technicians: Array<{
     userId: string;
     name: string;
-    email: string;
+    /** Only for the owner, who manages people; a regional manager reading another shop sees names, not addresses. */
+    email: string | null;
     active: boolean;
     skills: Array<{ skillId: string; name: string; weeklyHours: number }>;
   }>;
@@ -153,6 +155,7 @@ export async function getShop(actor: Actor, shopId: string, transaction?: Transa
   const shop = await loadShop(actor, shopId, transaction);
   assertCan(actor.ability, 'read', 'Shop', plainShop(shop), 'You have no role at that shop.');
   const { networkId } = actor;
+  const seesEmails = isOwner(actor);
   const techs = await Membership.findAll({
     where: { networkId, shopId, role: 'technician' },
     include: [{ model: User, as: 'user', where: { networkId }, required: true }],
@@ -181,7 +184,7 @@ export async function getShop(actor: Actor, shopId: string, transaction?: Transa
       .map((m) => ({
         userId: m.userId,
         name: m.user!.name,
-        email: m.user!.email,
+        email: seesEmails ? m.user!.email : null,
         active: m.user!.active,
         skills: hours
           .filter((h) => h.userId === m.userId)

@@ -44,7 +44,7 @@ export interface ShopDetail extends Shop {
   technicians: Array<{
     userId: string;
     name: string;
-    email: string;
+    email: string | null;
     active: boolean;
     skills: Array<{ skillId: string; name: string; weeklyHours: number }>;
   }>;

@@ -1,4 +1,5 @@
-import { Attachment, JobLineItem, ServiceCatalogItem, TimeLog, User } from '../../../server/lib/models.js';
+import { expect } from 'vitest';
+import { Attachment, Job, JobLineItem, ServiceCatalogItem, TimeLog, User } from '../../../server/lib/models.js';
 import { putObject } from '../../../server/lib/storage.js';
 import { objectKeyFor } from '../../../server/modules/files/service.js';
 import type { JobStage } from '../../../shared/domain.js';
@@ -27,8 +28,12 @@ const openerOf = (world: World, scope: Scope) => world.ids[scope].jobsOpener;
 const actorOrOpener = (world: World, scope: Scope, who: Who) =>
   scope !== 'otherNetwork' && who !== 'anonymous' ? world.users[who] : openerOf(world, scope);
 
+/** A job at the scope's shop for that shop's private customer, so every answer about it can be read for leaks. */
 async function freshJob(world: World, scope: Scope, stage: JobStage = 'on_bench') {
-  const { job } = await makeInstrumentWithJob(networkOf(world, scope), shopOf(world, scope), openerOf(world, scope), { stage });
+  const { instrument, job } = await makeInstrumentWithJob(networkOf(world, scope), shopOf(world, scope), openerOf(world, scope), { stage });
+  const customerId = world.ids[scope].customer;
+  await instrument.update({ ownerKind: 'customer', ownerCustomerId: customerId });
+  await job.update({ customerId });
   return job;
 }
 
@@ -59,13 +64,17 @@ const MOVE_FOR: Record<Who, { from: JobStage; to: JobStage }> = {
 export const cases: RouteCase[] = [
   {
     route: 'GET /api/jobs',
-    build: ({ world, scope }) => ({ path: '/api/jobs', query: { shop: shopOf(world, scope) } }),
+    // every stage, so released jobs and their customers are on the board too
+    build: ({ world, scope }) => ({ path: '/api/jobs', query: { shop: shopOf(world, scope), stage: 'all' } }),
     allow: readJobs,
+    // `shop` is the scope's target; the other ids narrow the board
+    foreignIds: { 'query.technician': { kind: 'user', filter: true }, 'query.skill': { kind: 'skill', filter: true } },
   },
   {
     route: 'GET /api/jobs/mine',
     scopeless: true,
     build: () => ({ path: '/api/jobs/mine' }),
+    foreignIds: { 'query.shop': { kind: 'shop', filter: true } },
     allow: { owner: OWN, regional_manager: OWN, front_desk: OWN, technician: OWN, auditor: OWN },
   },
   {
@@ -77,6 +86,12 @@ export const cases: RouteCase[] = [
     route: 'PATCH /api/jobs/:jobId',
     build: async ({ world, scope }) => ({ path: `/api/jobs/${(await freshJob(world, scope)).id}`, body: { conditionNotes: 'Case hinge loose.' } }),
     allow: workJobs,
+    // the assignee must work at the job's shop; skills are the network's
+    foreignIds: { 'body.assignedUserId': { kind: 'user', otherShop: 'refused' }, 'body.requiredSkillId': 'skill' },
+    verify: async ({ built }) => {
+      const job = await Job.findByPk(built.path.split('/').pop()!);
+      expect(job?.conditionNotes).toBe('Case hinge loose.');
+    },
   },
   {
     route: 'POST /api/jobs/:jobId/stage',
@@ -93,6 +108,13 @@ export const cases: RouteCase[] = [
       body: { kind: 'labor', catalogItemId: world.ids[scope].catalogItem },
     }),
     allow: workJobs,
+    verify: async ({ built }) => {
+      expect(await JobLineItem.count({ where: { jobId: built.path.split('/')[3] } })).toBe(1);
+    },
+    foreignIds: {
+      'body.catalogItemId': 'catalogItem',
+      'body.partId': { kind: 'pad', with: { kind: 'part', description: 'Pad', quantity: 1, unitPriceCents: 500 } },
+    },
   },
   {
     route: 'PATCH /api/jobs/:jobId/line-items/:itemId',
@@ -102,6 +124,8 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/line-items/${item.id}`, body: { quantity: 2 } };
     },
     allow: workJobs,
+    // one's own job, the line of a job of another shop or network
+    foreignIds: { 'path.5': { kind: 'lineItem', otherShop: 'refused' } },
   },
   {
     route: 'DELETE /api/jobs/:jobId/line-items/:itemId',
@@ -111,6 +135,7 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/line-items/${item.id}` };
     },
     allow: workJobs,
+    foreignIds: { 'path.5': { kind: 'lineItem', otherShop: 'refused' } },
   },
   {
     route: 'POST /api/jobs/:jobId/approval',
@@ -135,6 +160,7 @@ export const cases: RouteCase[] = [
       return { path: `/api/jobs/${job.id}/time-logs/${log.id}` };
     },
     allow: workJobs,
+    foreignIds: { 'path.5': { kind: 'timeLog', otherShop: 'refused' } },
   },
   {
     route: 'GET /api/service-catalog',
@@ -147,11 +173,13 @@ export const cases: RouteCase[] = [
     scopeless: true,
     build: () => ({ path: '/api/service-catalog', body: { name: `Key cork set ${uniq()}`, family: null, standardHours: 0.5, skillId: null } }),
     allow: { owner: OWN },
+    foreignIds: { 'body.skillId': 'skill' },
   },
   {
     route: 'PATCH /api/service-catalog/:itemId',
     build: ({ world, scope }) => ({ path: `/api/service-catalog/${world.ids[scope].catalogItem}`, body: { standardHours: 1.5 } }),
     allow: { owner: EVERY_SHOP },
+    foreignIds: { 'body.skillId': 'skill' },
   },
   {
     route: 'GET /api/jobs/:jobId/attachments',
@@ -195,6 +223,9 @@ export const cases: RouteCase[] = [
     }),
     // front desk removes only what they uploaded themselves; this one is someone else's
     allow: { owner: EVERY_SHOP, regional_manager: OWN, technician: OWN },
+    verify: async ({ built }) => {
+      expect(await Attachment.count({ where: { id: built.path.split('/').pop()! } })).toBe(0);
+    },
   },
   {
     route: 'GET /api/instruments/:instrumentId/photos',
@@ -211,6 +242,12 @@ export async function extendWorld(world: World) {
     world.ids[scope].jobsOpener = opener.id;
     const item = await ServiceCatalogItem.create({ networkId, name: `Leak test ${uniq()}`, family: null, standardHours: 1 });
     world.ids[scope].catalogItem = item.id;
+    // a line and a time entry on the scope's job, for cells that name them under another job
+    const jobId = world.ids[scope].job;
+    const line = await JobLineItem.create({ networkId, jobId, kind: 'part', description: 'Pad cup shim', quantity: 1, unitPriceCents: 300 });
+    world.ids[scope].lineItem = line.id;
+    const log = await TimeLog.create({ networkId, jobId, userId: opener.id, minutes: 20, workedOn: new Date().toISOString().slice(0, 10) });
+    world.ids[scope].timeLog = log.id;
   }
 }
 

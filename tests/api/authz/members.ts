@@ -1,6 +1,7 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { Invitation, Membership } from '../../../server/lib/models.js';
 import { makeUser, uniq } from '../../helpers/factories.js';
+import { expect } from 'vitest';
 import { SCOPES, type RouteCase, type Scope, type World } from './types.js';
 
 /** Sign-in session, people, roles, invitations and the audit log (server/modules/members). */
@@ -44,7 +45,13 @@ export const cases: RouteCase[] = [
   },
 
   // people and roles
-  { route: 'GET /api/people', scopeless: true, allow: { owner: SCOPES }, build: () => ({ path: '/api/people' }) },
+  {
+    route: 'GET /api/people',
+    scopeless: true,
+    allow: { owner: SCOPES },
+    build: () => ({ path: '/api/people' }),
+    foreignIds: { 'query.shopId': { kind: 'shop', filter: true } },
+  },
   {
     route: 'GET /api/people/:id',
     allow: ownerInNetwork,
@@ -62,6 +69,13 @@ export const cases: RouteCase[] = [
       path: `/api/people/${(await freshStaff(world, scope)).user.id}/memberships`,
       body: { shopId: world.ids[scope].shop, role: 'front_desk' },
     }),
+    // a role at another shop of the network is the owner's to give; another network's shop is not found
+    foreignIds: { 'body.shopId': { kind: 'shop', otherShop: 'allowed' } },
+    verify: async ({ built }) => {
+      const userId = built.path.split('/')[3];
+      const roles = await Membership.findAll({ where: { userId } });
+      expect(roles.map((m) => m.role)).toContain('front_desk');
+    },
   },
   {
     route: 'POST /api/people/:id/deactivate',
@@ -97,8 +111,13 @@ export const cases: RouteCase[] = [
     allow: ownerInNetwork,
     build: ({ world, scope }) => ({
       path: '/api/invitations',
-      body: { email: `new-${uniq()}@matrix.test`, roles: [{ shopId: world.ids[scope].shop, role: 'technician' }] },
+      body: {
+        email: `new-${uniq()}@matrix.test`,
+        roles: [{ shopId: world.ids[scope].shop, role: 'technician' }, { shopId: world.ids[scope].destinationShop, role: 'auditor' }],
+      },
     }),
+    // the second role at another network's shop, beside one at the scope's
+    foreignIds: { 'body.roles.1.shopId': { kind: 'shop' } },
   },
   {
     route: 'DELETE /api/invitations/:id',

@@ -41,6 +41,7 @@ export const cases: RouteCase[] = [
       path: `/api/shops/${world.ids[scope].shop}/skills`,
       body: { skills: [{ skillId: world.ids[scope].skill, weeklyBenchHours: 30 }] },
     }),
+    foreignIds: { 'body.skills.0.skillId': 'skill' },
   },
   {
     route: 'PUT /api/shops/:id/technician-skills',
@@ -49,6 +50,8 @@ export const cases: RouteCase[] = [
       path: `/api/shops/${world.ids[scope].shop}/technician-skills`,
       body: { userId: world.ids[scope].user, skills: [{ skillId: world.ids[scope].skill, weeklyHours: 12 }] },
     }),
+    // the technician must work at the shop
+    foreignIds: { 'body.userId': { kind: 'user', otherShop: 'refused' }, 'body.skills.0.skillId': 'skill' },
   },
 
   { route: 'GET /api/skills', scopeless: true, allow: signedIn, build: () => ({ path: '/api/skills' }) },
@@ -64,7 +67,13 @@ export const cases: RouteCase[] = [
     build: ({ world, scope }) => ({ path: `/api/skills/${world.ids[scope].skill}`, body: { name: 'Low saxophones' } }),
   },
 
-  { route: 'GET /api/relay-runs', scopeless: true, allow: signedIn, build: () => ({ path: '/api/relay-runs' }) },
+  {
+    route: 'GET /api/relay-runs',
+    scopeless: true,
+    allow: signedIn,
+    build: () => ({ path: '/api/relay-runs' }),
+    foreignIds: { 'query.shopId': { kind: 'shop', filter: true } },
+  },
   {
     // the run's shops are the scope's: another network's shops are not found
     route: 'POST /api/relay-runs',
@@ -73,6 +82,8 @@ export const cases: RouteCase[] = [
       path: '/api/relay-runs',
       body: { fromShopId: world.ids[scope].shop, toShopId: world.ids[scope].destinationShop, weekdays: [5], departureTime: '16:00', transitHours: 8 },
     }),
+    // `fromShopId` is the scope's target; a run to another shop of the network is what runs are for
+    foreignIds: { 'body.toShopId': { kind: 'shop', otherShop: 'allowed' } },
   },
   {
     route: 'PATCH /api/relay-runs/:id',

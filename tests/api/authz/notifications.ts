@@ -21,6 +21,7 @@ export const cases: RouteCase[] = [
     // `own`: a notice of the person asking; `otherShop`: someone else's in the same network; `otherNetwork`: another network's
     route: 'POST /api/notifications/:id/read',
     allow: ownOnly,
+    scopeIsPerson: true,
     build: async ({ world, scope, who }) => {
       const networkId = scope === 'otherNetwork' ? world.networkB : world.networkA;
       const userId = scope === 'own' ? world.users[who === 'anonymous' ? 'owner' : who] : world.ids[scope].user;

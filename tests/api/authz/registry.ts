@@ -15,7 +15,8 @@ const allRoles = (scopes: Scope[]): Partial<Record<Who, Scope[]>> => ({
 /** Who takes work in at a shop: the owner anywhere, managers and front desk at their own shop. */
 const intakeAllow: Partial<Record<Who, Scope[]>> = { owner: ['own', 'otherShop'], regional_manager: ['own'], front_desk: ['own'] };
 
-const instrumentOf = (world: World, scope: Scope) => world.ids[scope].registryInstrument;
+/** The serial of the scope's instrument that its private customer owns and that has a job. */
+const serialOf = async (world: World, scope: Scope) => (await Instrument.findByPk(world.ids[scope].instrument))!.serial;
 const serial = () => `AZ-${randomUUID().slice(0, 8)}`;
 
 export async function extendWorld(world: World): Promise<void> {
@@ -33,14 +34,17 @@ export const cases: RouteCase[] = [
   {
     route: 'GET /api/instruments/search',
     scopeless: true,
-    build: () => ({ path: '/api/instruments/search', query: { q: 'AZ' } }),
+    // another shop's instrument, owned by that shop's private customer: the hit may show the work, not the owner
+    build: async ({ world }) => ({ path: '/api/instruments/search', query: { q: await serialOf(world, 'otherShop') } }),
     allow: allRoles(everyScope),
+    foreignIds: { 'query.shopId': { kind: 'shop', filter: true }, 'query.ownerCustomerId': { kind: 'customer', filter: true } },
   },
   {
     route: 'GET /api/instruments/export.csv',
     scopeless: true,
-    build: () => ({ path: '/api/instruments/export.csv', query: { q: 'AZ' } }),
+    build: async ({ world }) => ({ path: '/api/instruments/export.csv', query: { q: await serialOf(world, 'otherShop') } }),
     allow: allRoles(everyScope),
+    foreignIds: { 'query.shopId': { kind: 'shop', filter: true }, 'query.ownerCustomerId': { kind: 'customer', filter: true } },
   },
   {
     route: 'GET /api/instruments/serial-check',
@@ -50,12 +54,12 @@ export const cases: RouteCase[] = [
   },
   {
     route: 'GET /api/instruments/:id',
-    build: ({ world, scope }) => ({ path: `/api/instruments/${instrumentOf(world, scope)}` }),
+    build: ({ world, scope }) => ({ path: `/api/instruments/${world.ids[scope].instrument}` }),
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own', 'otherShop'], technician: ['own', 'otherShop'], auditor: ['own'] },
   },
   {
     route: 'GET /api/instruments/:id/timeline',
-    build: ({ world, scope }) => ({ path: `/api/instruments/${instrumentOf(world, scope)}/timeline` }),
+    build: ({ world, scope }) => ({ path: `/api/instruments/${world.ids[scope].instrument}/timeline` }),
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own', 'otherShop'], technician: ['own', 'otherShop'], auditor: ['own'] },
   },
   {
@@ -65,17 +69,22 @@ export const cases: RouteCase[] = [
       body: { shopId: world.ids[scope].shop, ownerKind: 'rental_fleet', rows: [{ row: 2, serial: serial(), maker: 'Matrix Winds', family: 'flute' }] },
     }),
     allow: intakeAllow,
+    // `shopId` is the scope's target; the owner named must be a customer the person may use
+    foreignIds: { 'body.ownerCustomerId': { kind: 'foreignCustomer', otherShop: 'ownerOnly', with: { ownerKind: 'customer' } } },
   },
   {
     route: 'GET /api/customers',
     scopeless: true,
-    build: () => ({ path: '/api/customers', query: { q: 'a' } }),
+    // asks by another shop's private customer's name: only the owner may find them
+    build: ({ world }) => ({ path: '/api/customers', query: { q: world.secrets.otherShop.customer[0] } }),
     allow: { owner: everyScope, regional_manager: everyScope, front_desk: everyScope, auditor: everyScope },
   },
   {
     route: 'POST /api/customers',
     build: ({ world, scope }) => ({ path: '/api/customers', body: { shopId: world.ids[scope].shop, kind: 'person', name: 'Matrix Player' } }),
     allow: intakeAllow,
+    // `shopId` is the scope's target
+    foreignIds: {},
   },
   {
     route: 'POST /api/intake',
@@ -90,5 +99,10 @@ export const cases: RouteCase[] = [
       },
     }),
     allow: intakeAllow,
+    // `shopId` is the scope's target; an instrument of any shop may come to the desk, a customer only one the person may use
+    foreignIds: {
+      'body.instrument.id': 'registryInstrument',
+      'body.customer.id': { kind: 'foreignCustomer', otherShop: 'ownerOnly' },
+    },
   },
 ];

@@ -42,6 +42,8 @@ export const cases: RouteCase[] = [
       route: `GET ${path}`,
       allow: anyShopForOwner,
       build: ({ world, scope }) => ({ path, query: shopQuery(scope, world.ids) }),
+      // `shop` is the scope's target; the job lists narrow by skill too
+      foreignIds: path.startsWith('/api/reports/jobs') ? { 'query.skill': { kind: 'skill', filter: true } } : {},
     }),
   ),
   ...csvRoutes.map(
@@ -60,5 +62,6 @@ export const cases: RouteCase[] = [
       path: '/api/reports/invoices.csv',
       query: { ...shopQuery(scope, world.ids), from: '2026-01-01', to: '2026-12-31' },
     }),
+    foreignIds: {},
   },
 ];

@@ -43,11 +43,15 @@ export const cases: RouteCase[] = [
     route: 'GET /api/stock',
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own'], front_desk: ['own'], technician: ['own'], auditor: ['own'] },
     build: ({ world, scope }) => ({ path: '/api/stock', query: { shopId: world.ids[scope].shop } }),
+    // `shopId` is the scope's target
+    foreignIds: {},
   },
   {
     route: 'PATCH /api/stock/:shopId/parts/:partId',
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own'] },
     build: ({ world, scope }) => ({ path: `/api/stock/${world.ids[scope].shop}/parts/${world.ids[scope].pad}`, body: { reorderPoint: 2 } }),
+    // one's own shop, another network's part
+    foreignIds: { 'path.partId': 'pad' },
   },
   {
     // the shop that is short asks (a repeat finds the open request and answers 200)
@@ -57,6 +61,8 @@ export const cases: RouteCase[] = [
       path: '/api/stock/part-transfers',
       body: { partId: world.ids[scope].pad, fromShopId: world.ids[scope].partsShop, toShopId: world.ids[scope].shop, quantity: 1 },
     }),
+    // `toShopId` is the scope's target: the shop that is short
+    foreignIds: { 'body.partId': 'pad', 'body.fromShopId': 'partsShop', 'body.jobId': { kind: 'job', otherShop: 'refused' } },
   },
   {
     // the sending shop's manager packs the parts

@@ -1,3 +1,4 @@
+import { expect } from 'vitest';
 import { Transfer } from '../../../server/lib/models.js';
 import { writeManifest } from '../../../server/modules/transfers/service.js';
 import type { TransferState } from '../../../shared/domain.js';
@@ -47,7 +48,13 @@ export async function extendWorld(world: World) {
 
 export const cases: RouteCase[] = [
   // lists are filtered to what each person may read (tests/api/transfers.test.ts)
-  { route: 'GET /api/transfers', scopeless: true, allow: signedIn, build: () => ({ path: '/api/transfers' }) },
+  {
+    route: 'GET /api/transfers',
+    scopeless: true,
+    allow: signedIn,
+    build: () => ({ path: '/api/transfers' }),
+    foreignIds: { 'query.shopId': { kind: 'shop', filter: true } },
+  },
   {
     route: 'GET /api/transfers/recommendation',
     allow: originSide,
@@ -55,11 +62,15 @@ export const cases: RouteCase[] = [
       path: '/api/transfers/recommendation',
       query: { jobId: world.ids[scope].job, ...(world.ids[scope].skill ? { skillId: world.ids[scope].skill } : {}) },
     }),
+    // `jobId` is the scope's target
+    foreignIds: { 'query.skillId': 'skill' },
   },
   {
     route: 'GET /api/transfers/requestable-jobs',
     allow: originSide,
     build: ({ world, scope }) => ({ path: '/api/transfers/requestable-jobs', query: { shopId: world.ids[scope].shop } }),
+    // `shopId` is the scope's target
+    foreignIds: {},
   },
   {
     route: 'POST /api/transfers',
@@ -68,6 +79,12 @@ export const cases: RouteCase[] = [
       const p = await placeOf(world, scope);
       const { job } = await makeInstrumentWithJob(p.networkId, p.shopId, p.requesterId, { stage: 'assessed' });
       return { path: '/api/transfers', body: { jobId: job.id, toShopId: p.thirdShopId, reason: 'Authorization matrix' } };
+    },
+    // `jobId` is the scope's target; sending to another shop of the network is what a transfer is for
+    foreignIds: { 'body.toShopId': { kind: 'shop', otherShop: 'allowed' } },
+    verify: async ({ res }) => {
+      const id = (res.body as { id?: string }).id;
+      expect(id && (await Transfer.findByPk(id))?.state).toBe('requested');
     },
   },
   {
@@ -106,11 +123,14 @@ export const cases: RouteCase[] = [
     route: 'POST /api/transfers/:id/pack',
     allow: originSide,
     build: async ({ world, scope }) => ({ path: `/api/transfers/${(await freshTransfer(world, scope, 'approved')).transfer.id}/pack`, body: {} }),
+    // a relay run must run between the transfer's two shops
+    foreignIds: { 'body.relayRunId': { kind: 'relayRun', otherShop: 'refused' } },
   },
   {
     route: 'POST /api/transfers/:id/hand-over',
     allow: originSide,
     build: async ({ world, scope }) => ({ path: `/api/transfers/${(await freshTransfer(world, scope, 'packed')).transfer.id}/hand-over`, body: {} }),
+    foreignIds: { 'body.relayRunId': { kind: 'relayRun', otherShop: 'refused' } },
   },
   {
     // incoming to the scope's shop: receiving is done at the destination

@@ -34,7 +34,43 @@ export interface World {
   emails: Record<Role, string>;
   /** A fresh signed-in session of that role's person, for a cell whose route ends the session it uses. */
   signInAs(role: Role): Promise<string>;
+  /**
+   * What a scope's private customer (kind 'person') and its staff member are known by: strings that
+   * must never reach someone who may not see them (see `forbiddenFor` in the runner).
+   */
+  secrets: Record<Scope, { customer: string[]; staffEmail: string }>;
 }
+
+/**
+ * The kinds of record an id in a body or query names. Each maps to `world.ids[scope][kind]`, so a
+ * mixed-scope cell sends the same field with the id of that kind from another shop or network.
+ */
+export type IdKind =
+  | 'shop' | 'destinationShop' | 'partsShop' | 'instrument' | 'registryInstrument' | 'customer' | 'foreignCustomer'
+  | 'user' | 'pad' | 'attachment' | 'job' | 'skill' | 'relayRun' | 'transfer' | 'catalogItem' | 'lineItem' | 'timeLog';
+
+/**
+ * One id parameter of a route. `otherShop` says what happens when the id is of another shop of the
+ * same network (where the person asking holds no role): refused for everyone, refused for everyone but
+ * the owner, or allowed (e.g. a transfer's destination); left out when a shop means nothing for the kind
+ * (skills are network-wide). Another network's id is always refused. `filter` marks a list filter:
+ * a foreign id there may also answer 2xx, as long as nothing of the foreign record comes back.
+ */
+export interface ForeignId {
+  kind: IdKind;
+  otherShop?: 'refused' | 'ownerOnly' | 'allowed';
+  filter?: boolean;
+  /** Merged into the body first, when the id only counts in another shape of it (a part line, a customer-owned batch). */
+  with?: Record<string, unknown>;
+}
+
+/**
+ * Where the id goes: `body.<path>` or `query.<name>`; a dotted path reaches into objects and arrays
+ * (`body.roles.0.shopId`). `path.<name>` swaps the own scope's id of that kind inside the URL path
+ * (`/api/stock/<own shop>/parts/<another network's part>`); `path.<n>` swaps the n-th path segment
+ * (`/api/jobs/<own job>/line-items/<another job's line>`).
+ */
+export type IdField = `body.${string}` | `query.${string}` | `path.${string}`;
 
 export interface BuiltRequest {
   /** concrete path, e.g. `/api/instruments/${id}` */
@@ -57,6 +93,28 @@ export interface RouteCase {
   allow: Partial<Record<Who, Scope[]>>;
   /** routes whose answer does not depend on a target record (e.g. /api/me): scope is ignored */
   scopeless?: boolean;
+  /** `own` is the person's own record and `otherShop` someone else's (an inbox notice), not two shops */
+  scopeIsPerson?: boolean;
+  /**
+   * Every id the request carries in its body or query besides the scope's own target: the runner
+   * sends each with another shop's and another network's id (tests "mixed scopes"). A write route
+   * whose body carries ids must declare them, or say `{}` for a deliberate none.
+   */
+  foreignIds?: Partial<Record<IdField, IdKind | ForeignId>>;
+  /**
+   * The status an allowed call answers (default: any of 200, 201, 202, 204). A redirect is never
+   * "allowed" unless named here.
+   */
+  status?: number | number[];
+  /** For allowed cells: checks that the write happened (reads the database after the call). */
+  verify?: (ctx: { world: World; scope: Scope; who: Who; built: BuiltRequest; res: { status: number; body: unknown; text: string } }) => Promise<void> | void;
+  /**
+   * Extra strings that must not appear in the answer of a cell, on top of the runner's rule that a
+   * private customer's name and contact and a staff e-mail never reach someone who may not see them.
+   */
+  forbiddenInBody?: (ctx: { world: World; scope: Scope; who: Who }) => string[];
+  /** Who may see the private customer of a scope in this route's answer, beyond the runner's default. */
+  mayShowCustomer?: (ctx: { scope: Scope; who: Who }) => boolean;
 }
 
 /**
