@@ -51,6 +51,8 @@ export const cases: RouteCase[] = [
       route: `GET ${path}`,
       allow: exportOnly,
       build: ({ world, scope }) => ({ path, query: shopQuery(scope, world.ids) }),
+      // `shop` is the scope's target; the job list narrows by skill too
+      foreignIds: path === '/api/reports/jobs.csv' ? { 'query.skill': { kind: 'skill', filter: true } } : {},
     }),
   ),
   // Invoices carry customers and money: the owner, regional managers and front desk (who release and
