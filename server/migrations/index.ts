@@ -3,6 +3,7 @@ import * as initialSchema from './0001-initial-schema.js';
 import * as peopleAndInvitations from './0002-people-and-invitations.js';
 import * as partTransfers from './0005-part-transfers.js';
 import * as reportIndexes from './0007-report-indexes.js';
+import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -15,4 +16,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0002-people-and-invitations', ...peopleAndInvitations },
   { name: '0005-part-transfers', ...partTransfers },
   { name: '0007-report-indexes', ...reportIndexes },
+  { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
 ];
