@@ -78,7 +78,11 @@ export interface JobDetail {
   job: JobSummary & {
     conditionNotes: string | null;
     estimatedHours: number | null;
-    estimateApproval: { at: string; byName: string; method: EstimateApprovalMethod } | null;
+    /** The approval, with the total and the estimate version approved (null on approvals recorded before versions). */
+    estimateApproval: { at: string; byName: string; method: EstimateApprovalMethod; totalCents: number | null; version: number | null } | null;
+    estimateVersion: number;
+    /** The total has risen above the approved amount: the job waits for a new approval before more paid work. */
+    needsReapproval: boolean;
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;

@@ -738,3 +738,23 @@ async function upsertImportRow(
   }
 }
 
+
+/**
+ * One entry on an instrument's work history, for changes other modules make to a job (an estimate's
+ * lines, tax or total). The registry owns the history; other modules write to it through here.
+ */
+export async function appendHistory(
+  entry: {
+    networkId: string;
+    instrumentId: string;
+    jobId: string | null;
+    shopId: string | null;
+    userId: string | null;
+    kind: string;
+    summary: string;
+    data: Record<string, unknown>;
+  },
+  transaction?: Transaction,
+) {
+  return HistoryEvent.create(entry, { transaction });
+}

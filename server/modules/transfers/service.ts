@@ -40,6 +40,7 @@ import {
   type TransferView,
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
+import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -730,8 +731,14 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
       }
       case 'received': {
         const resume: JobStage = job.stageBeforeHold ?? (job.stage === 'in_transit' ? 'approved' : job.stage);
+        // the estimate is taxed where the work is done: a shop with another rate changes its total
+        const estimateBefore = await currentEstimate(job, transaction, t.fromShop.taxRateBasisPoints);
         await t.update({ state: 'received', receivedByUserId: data.actorUserId, receivedAt: at }, { transaction });
         await job.update({ shopId: t.toShopId, stage: resume, stageBeforeHold: null, assignedUserId: null }, { transaction });
+        await recordEstimateChange(
+          job, data.actorUserId, `re-taxed at ${t.toShop.name}'s rate after the transfer`, estimateBefore, transaction,
+          await currentEstimate(job, transaction, t.toShop.taxRateBasisPoints),
+        );
         await instrument.update({ currentShopId: t.toShopId, status: 'in_shop' }, { transaction });
         events.push({
           networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.toShopId, userId: data.actorUserId,
