@@ -12,6 +12,7 @@ import {
   Shop,
   Skill,
   TimeLog,
+  Transfer,
   User,
   sequelize,
 } from '../../lib/models.js';
@@ -300,7 +301,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     include: [...summaryIncludes(), { model: User, as: 'openedBy', attributes: ['id', 'name'] }],
   }))!;
   const shop = await findShop(actor.networkId, job.shopId);
-  const [items, logs, history, technicians, skills, customer] = await Promise.all([
+  const [items, logs, history, technicians, skills, customer, openTransfer] = await Promise.all([
     lineItemsOf(job),
     TimeLog.findAll({
       where: { networkId: actor.networkId, jobId: job.id },
@@ -316,6 +317,13 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     techniciansAt(actor.networkId, job.shopId),
     networkSkills(actor.networkId),
     job.customerId ? Customer.findOne({ where: { networkId: actor.networkId, id: job.customerId } }) : Promise.resolve(null),
+    Transfer.findOne({
+      where: { networkId: actor.networkId, jobId: job.id, state: { [Op.in]: ['requested', 'approved', 'packed', 'in_transit'] } },
+      include: [
+        { association: 'fromShop', attributes: ['id', 'name', 'timeZone'] },
+        { association: 'toShop', attributes: ['id', 'name', 'timeZone'] },
+      ],
+    }) as Promise<(Transfer & { fromShop: Shop; toShop: Shop }) | null>,
   ]);
 
   const row = asRow(job);
@@ -361,6 +369,17 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
             }
           : null,
       estimateVersion: job.estimateVersion ?? 0,
+      openTransfer: openTransfer
+        ? {
+            id: openTransfer.id,
+            state: openTransfer.state as 'requested' | 'approved' | 'packed' | 'in_transit',
+            fromShop: { id: openTransfer.fromShop.id, name: openTransfer.fromShop.name, timeZone: openTransfer.fromShop.timeZone },
+            toShop: { id: openTransfer.toShop.id, name: openTransfer.toShop.name, timeZone: openTransfer.toShop.timeZone },
+            departedAt: iso(openTransfer.departedAt),
+            expectedArrivalAt: iso(openTransfer.expectedArrivalAt),
+            onRelayRun: !!openTransfer.relayRunId,
+          }
+        : null,
       needsReapproval,
       readyAt: iso(job.readyAt),
       releasedAt: iso(job.releasedAt),
