@@ -395,8 +395,25 @@ export async function recommendDestinations(actor: Actor, input: { jobId: string
     runs: runs.map((r) => ({ ...r.get({ plain: true }), transitHours: r.transitHours })),
     settings,
   });
-  return { job: jobBrief, skill: { id: skill.id, code: skill.code, name: skill.name }, skills: skillList, ...result };
+  const withoutReceiver = await shopsWithoutReceiver(actor.networkId, candidates.map((c) => c.shopId));
+  return { job: jobBrief, skill: { id: skill.id, code: skill.code, name: skill.name }, skills: skillList, ...result, withoutReceiver };
 }
+
+/**
+ * Receiving is the destination's front desk's or regional manager's work (the rules keep it so). Shops
+ * among `shopIds` where nobody holds either role: a request to them is warned about, since only the
+ * owner could then confirm receipt.
+ */
+async function shopsWithoutReceiver(networkId: string, shopIds: string[]) {
+  const out: string[] = [];
+  for (const shopId of shopIds) {
+    if (!(await peopleAt(networkId, [shopId], ['front_desk', 'regional_manager'])).length) out.push(shopId);
+  }
+  return out;
+}
+
+export const noReceiverWarning = (shopName: string) =>
+  `Nobody at ${shopName} may receive transfers (no front desk or regional manager there): only the owner could confirm receipt. Give someone there that role before the instrument arrives.`;
 
 // ---------------------------------------------------------------------------------------------
 // Asking for a step (API side)
@@ -435,7 +452,8 @@ export async function requestTransfer(actor: Actor, input: CreateTransferInput) 
     actorUserId: actor.id,
     at: transfer.requestedAt.toISOString(),
   });
-  return { id: transfer.id, state: transfer.state, queued: { step: 'requested' as const, jobId } };
+  const warnings = (await shopsWithoutReceiver(actor.networkId, [destination.id])).length ? [noReceiverWarning(destination.name)] : [];
+  return { id: transfer.id, state: transfer.state, queued: { step: 'requested' as const, jobId }, warnings };
 }
 
 async function loadForStep(actor: Actor, id: string) {

@@ -101,6 +101,8 @@ export interface Recommendation {
   ranked: RankedShop[];
   recommendedShopId: string | null;
   settings: RoutingSettings;
+  /** Ranked shops where nobody may receive a transfer (no front desk or regional manager). */
+  withoutReceiver?: string[];
 }
 
 export interface StepAccepted {

@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { buildApp } from '../../../../server/app.js';
-import { Notification, RelayRun, Transfer } from '../../../../server/lib/models.js';
+import { Notification, RelayRun, Shop, ShopSkill, Transfer } from '../../../../server/lib/models.js';
+import { makeUser } from '../../../helpers/factories.js';
 import { appQueue } from '../../../../server/lib/queue.js';
 import { headObject } from '../../../../server/lib/storage.js';
 import { applyTransferStep, checkTransferArrival, manifestKeyFor } from '../../../../server/modules/transfers/service.js';
@@ -140,6 +141,29 @@ describe('a relay run hand-over waits for the run, and the manifest travels with
     expect(detail.body.transfer.manifestAvailable).toBe(false);
     const ownerNotices = await Notification.findAll({ where: { networkId: world.networkId, userId: world.people.owner.id, link: `/transfers/${t.id}` } });
     expect(ownerNotices.map((n) => n.title)).toEqual(expect.arrayContaining([expect.stringMatching(/^Transfer cancelled/)]));
+  });
+
+  it('warns, in the recommendation and the request, when nobody at the destination may receive', async () => {
+    const { networkId } = world;
+    const benchOnly = await Shop.create({
+      networkId, name: `Bench only ${Date.now()}`, code: `BO${String(Date.now()).slice(-5)}`, city: 'Tacoma',
+      timeZone: 'America/Los_Angeles', latitude: 47.2529, longitude: -122.4443, openingDays: [1, 2, 3, 4, 5], laborRateCents: 9000,
+    });
+    await ShopSkill.create({ networkId, shopId: benchOnly.id, skillId: world.skill.id, weeklyBenchHours: 20 });
+    await makeUser(networkId, [{ shopId: benchOnly.id, role: 'technician' }]);
+    const { job } = await makeTransferJob(world);
+    const rec = await request(app).get('/api/transfers/recommendation').query({ jobId: job.id }).set('Cookie', cookies.manager).expect(200);
+    expect(rec.body.withoutReceiver).toEqual([benchOnly.id]);
+    const res = await request(app).post('/api/transfers').set('Cookie', cookies.manager)
+      .send({ jobId: job.id, toShopId: benchOnly.id, reason: 'Nearest bench with the skill' }).expect(201);
+    expect(res.body.warnings).toEqual([
+      `Nobody at ${benchOnly.name} may receive transfers (no front desk or regional manager there): only the owner could confirm receipt. Give someone there that role before the instrument arrives.`,
+    ]);
+    // where someone may receive, no warning
+    const { job: other } = await makeTransferJob(world);
+    const ok = await request(app).post('/api/transfers').set('Cookie', cookies.manager)
+      .send({ jobId: other.id, toShopId: world.destination.id, reason: 'Low-reed specialist' }).expect(201);
+    expect(ok.body.warnings).toEqual([]);
   });
 
   it('refuses a case count that is not a whole number, and changes nothing', async () => {
