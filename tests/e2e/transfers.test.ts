@@ -201,6 +201,10 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
       await page.screenshot({ path: `${SHOTS}/job-in-transit-${width}.png`, fullPage: true });
     }
     await page.setViewportSize({ width: 1280, height: 900 });
+    // nor is the instrument "now at" Seattle on its registry page
+    await page.goto(`${app.url}/registry/instruments/${transfer.instrumentId}?shop=${shops.SEA.id}`);
+    await page.getByText(new RegExp(`Baritone saxophone, on the relay run from Harborline Seattle to Harborline Portland, expected ${dayLabel(runDay)}, 10:30 P[SD]T`)).waitFor();
+    expect(await page.getByRole('main').innerText()).not.toContain('now at Harborline Seattle');
     await page.goto(`${app.url}/transfers/${transfer.id}?shop=${shops.SEA.id}`);
     await main.locator('header').getByText('In transit', { exact: true }).waitFor();
 
