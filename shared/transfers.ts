@@ -60,11 +60,29 @@ export type CreateTransferInput = z.infer<typeof createTransferSchema>;
 export const approveTransferSchema = z.object({ note: z.string().trim().max(1000, 'The note is too long.').optional() });
 export const reasonSchema = z.object({ reason: text(3, 1000, 'The reason') });
 
+export const PACK_TEXT_MAX = 1000;
+const packText = (label: string) =>
+  z
+    .string({ error: `${label} must be text.` })
+    .trim()
+    .max(PACK_TEXT_MAX, `${label} is too long (at most ${PACK_TEXT_MAX} characters).`)
+    .optional()
+    .transform((v) => (v ? v : null));
+
 export const packTransferSchema = z.object({
   /** null: no relay run between the two shops, an ad-hoc courier takes it. */
   relayRunId: uuid.nullable().optional(),
   /** Required for heavy cases: the person packing has read the lifting caution. */
   liftingAcknowledged: z.boolean().optional(),
+  /** What travels, printed on the manifest: the instrument's case(s), and what goes with it. */
+  caseCount: z
+    .number({ error: 'Enter a number of cases.' })
+    .int('Enter a whole number of cases.')
+    .min(1, 'At least one case travels.')
+    .max(20, 'At most 20 cases on one transfer.')
+    .default(1),
+  contents: packText('Contents and accessories'),
+  departureCondition: packText('Condition on departure'),
 });
 
 export const handOverSchema = z.object({ relayRunId: uuid.nullable().optional() });

@@ -7,6 +7,7 @@ import * as signInIdentity from './0008-sign-in-identity.js';
 import * as rateLimitStore from './0010-rate-limit-store.js';
 import * as attachmentEtag from './0009-attachment-etag.js';
 import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
+import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -23,4 +24,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0009-attachment-etag', ...attachmentEtag },
   { name: '0010-rate-limit-store', ...rateLimitStore },
   { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
+  { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
 ];

@@ -13,7 +13,9 @@ export type Action =
   | 'manage' | 'create' | 'read' | 'update' | 'delete'
   | 'request' | 'approve' | 'pack' | 'receive' | 'move_stage' | 'export'
   // an upload becomes a stored file: its uploader does it, or a manager of the shop (through manage)
-  | 'confirm';
+  | 'confirm'
+  /** Add, change and remove a job's estimate lines; a raise over the approved total then waits for a new approval. */
+  | 'edit_estimate';
 
 export type SubjectName =
   | 'Network' | 'Shop' | 'Membership' | 'Invitation' | 'AuditLog' | 'ServiceCatalog'
@@ -67,7 +69,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
   if (managed.length) {
     // A regional manager reads the whole network's registry and jobs, and runs their own shops.
     can('read', ['Instrument', 'Job', 'Transfer', 'Attachment', 'PadMap', 'Shop', 'ServiceCatalog', 'RelayRun']);
-    can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: managed } });
+    can(['create', 'update', 'move_stage', 'edit_estimate'], 'Job', { shopId: { $in: managed } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: managed } });
     can(['create', 'update'], 'Instrument', { currentShopId: { $in: managed } });
     can(['manage'], 'Stock', { shopId: { $in: managed } });
@@ -83,7 +85,7 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
     can(['create', 'update'], 'Instrument', { currentShopId: { $in: desk } });
     can(['read', 'create', 'update'], ['Customer', 'CustomerContact'], { homeShopId: { $in: desk } });
-    can(['create', 'update', 'move_stage'], 'Job', { shopId: { $in: desk } });
+    can(['create', 'update', 'move_stage', 'edit_estimate'], 'Job', { shopId: { $in: desk } });
     can(['create'], 'Attachment', { shopId: { $in: desk } });
     can('confirm', 'Attachment', { shopId: { $in: desk }, uploadedByUserId: user.id });
     // a wrong photo taken at intake can be taken back by whoever took it
@@ -102,6 +104,9 @@ export function defineRulesFor(user: AbilityUser): AppRule[] {
     // Technicians work the bench at their shops and read the registry.
     can('read', ['Instrument', 'Job', 'Attachment', 'PadMap', 'ServiceCatalog']);
     can(['update', 'move_stage'], 'Job', { shopId: { $in: bench } });
+    // what the bench finds (another pad, a bent key to straighten) goes on the estimate; a total above the
+    // approved amount then waits for the front desk to record the customer's new approval
+    can('edit_estimate', 'Job', { shopId: { $in: bench } });
     can(['create', 'update', 'delete'], ['Attachment', 'PadMap'], { shopId: { $in: bench } });
     can('confirm', 'Attachment', { shopId: { $in: bench }, uploadedByUserId: user.id });
     can('read', 'Stock', { shopId: { $in: bench } });

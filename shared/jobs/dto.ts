@@ -80,8 +80,22 @@ export interface JobDetail {
   job: JobSummary & {
     conditionNotes: string | null;
     estimatedHours: number | null;
-    /** `byName` is null where the customer's contact is not shown to this person */
-    estimateApproval: { at: string; byName: string | null; method: EstimateApprovalMethod } | null;
+    /** The approval (`byName` null where the customer's contact is not shown to this person), with the total and the estimate version approved (null on approvals recorded before versions). */
+    estimateApproval: { at: string; byName: string | null; method: EstimateApprovalMethod; totalCents: number | null; version: number | null } | null;
+    estimateVersion: number;
+    /** A transfer under way (requested to in transit), so the job page can say so and link to it. */
+    openTransfer: {
+      id: string;
+      state: 'requested' | 'approved' | 'packed' | 'in_transit';
+      fromShop: { id: string; name: string; timeZone: string };
+      toShop: { id: string; name: string; timeZone: string };
+      /** On a relay run: the run's departure; else when it left. */
+      departedAt: string | null;
+      expectedArrivalAt: string | null;
+      onRelayRun: boolean;
+    } | null;
+    /** The total has risen above the approved amount: the job waits for a new approval before more paid work. */
+    needsReapproval: boolean;
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;

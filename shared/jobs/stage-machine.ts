@@ -17,7 +17,7 @@ export type MainStage = (typeof JOB_STAGES)[number];
 export type HoldStage = (typeof JOB_HOLDS)[number];
 export type MoveActor = 'bench' | 'desk' | 'shared' | 'transfer';
 /** Conditions checked against the job before a move. */
-export type MoveGuard = 'estimate_approved';
+export type MoveGuard = 'estimate_approved' | 'estimate_reapproved';
 
 export interface MoveRule {
   from: JobStage;
@@ -75,6 +75,23 @@ export interface JobState {
   stage: JobStage;
   stageBeforeHold: MainStage | null;
   estimateApprovedAt?: Date | string | null;
+  /** The estimate's total rose above the approved amount after the approval (see estimateNeedsReapproval). */
+  needsReapproval?: boolean;
+}
+
+/**
+ * Stages that are work the customer pays for. While a raised estimate waits for a new approval, a job
+ * may not move into any of them — it stays at Approved (or where it stands) — except back from quality
+ * check to the bench. Holds for parts and transfers still move.
+ */
+const PAID_WORK_STAGES: JobStage[] = ['on_bench', 'quality_check', 'ready', 'released'];
+export function waitsForReapproval(from: JobStage, to: JobStage): boolean {
+  return PAID_WORK_STAGES.includes(to) && !(from === 'quality_check' && to === 'on_bench');
+}
+
+/** True when an approved estimate has since risen above what the customer approved. */
+export function estimateNeedsReapproval(job: { approvedTotalCents?: number | null }, currentTotalCents: number): boolean {
+  return job.approvedTotalCents != null && currentTotalCents > job.approvedTotalCents;
 }
 
 export interface MoveOption {
@@ -90,11 +107,12 @@ function targetOf(rule: MoveRule, job: JobState): JobStage | null {
   return job.stageBeforeHold;
 }
 
-function unmetGuards(rule: MoveRule, job: JobState): MoveGuard[] {
+function unmetGuards(rule: MoveRule, job: JobState, to: JobStage): MoveGuard[] {
   const unmet: MoveGuard[] = [];
   for (const guard of rule.guards ?? []) {
     if (guard === 'estimate_approved' && !job.estimateApprovedAt) unmet.push(guard);
   }
+  if (job.needsReapproval && rule.actor !== 'transfer' && waitsForReapproval(job.stage, to)) unmet.push('estimate_reapproved');
   return unmet;
 }
 
@@ -105,7 +123,7 @@ export function movesFrom(job: JobState): MoveOption[] {
     if (rule.from !== job.stage) continue;
     const to = targetOf(rule, job);
     if (!to) continue; // a hold without a stage to resume is damaged data; offer no way out but a fix
-    options.push({ to, label: rule.label, actor: rule.actor, blockedBy: unmetGuards(rule, job) });
+    options.push({ to, label: rule.label, actor: rule.actor, blockedBy: unmetGuards(rule, job, to) });
   }
   return options;
 }
@@ -124,6 +142,7 @@ export type MoveCheck =
 
 const GUARD_MESSAGES: Record<MoveGuard, string> = {
   estimate_approved: "Record the customer's approval of the estimate first.",
+  estimate_reapproved: "The estimate has risen above what the customer approved; record a new approval first.",
 };
 
 /**

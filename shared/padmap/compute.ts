@@ -94,11 +94,15 @@ export interface StemLine {
 }
 
 export interface LaborEstimate {
-  /** The service catalog's hours for a repad of this family. */
+  /** The service catalog's hours for a full repad of this family, shown beside the estimate for comparison. */
   standardHours: number;
-  /** Standard hours with the self-leveling share scaled by the owner's factor. */
+  /** base + per key × (glued keys + self-leveling keys × factor), to the hundredth of an hour. */
   hours: number;
+  baseHours: number;
+  perKeyHours: number;
   factor: number;
+  /** Keys that get a new pad in this map. */
+  keysRepadded: number;
   selfLevelingPads: number;
   gluedPads: number;
 }
@@ -284,17 +288,25 @@ export function partsListOf(keys: KeyResult[], catalog: PadCatalog): PartsLine[]
   );
 }
 
-/** Self-leveling pads share the repad with glued ones in proportion to how many keys take each. */
+/**
+ * Labor grows with the keys actually repadded: the owner's base hours (apart, clean, together, regulate,
+ * leak test) plus the owner's hours per glued key, a self-leveling key at the owner's factor. A map with
+ * no key repadded estimates no labor. `standardHours` (the catalog's full repad) only says which service
+ * the labor is billed as; without one there is no estimate.
+ */
 export function laborEstimate(keys: KeyResult[], standardHours: number | null | undefined, rules: PadRules): LaborEstimate | null {
   if (standardHours == null) return null;
   const chosen = keys.filter((k) => k.padDiameterMm != null);
   const selfLevelingPads = chosen.filter((k) => k.padKind === 'self_leveling').length;
   const gluedPads = chosen.length - selfLevelingPads;
-  const share = chosen.length ? (gluedPads + selfLevelingPads * rules.selfLevelingLaborFactor) / chosen.length : 1;
+  const keyHours = rules.repadHoursPerKey * (gluedPads + selfLevelingPads * rules.selfLevelingLaborFactor);
   return {
     standardHours,
-    hours: roundTo(standardHours * share, 2),
+    hours: chosen.length ? roundTo(rules.repadBaseHours + keyHours, 2) : 0,
+    baseHours: rules.repadBaseHours,
+    perKeyHours: rules.repadHoursPerKey,
     factor: rules.selfLevelingLaborFactor,
+    keysRepadded: chosen.length,
     selfLevelingPads,
     gluedPads,
   };

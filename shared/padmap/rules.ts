@@ -26,8 +26,16 @@ export interface PadRules {
   stemHeightsMm: number[];
   /** The pad face should stand this far above the cup rim. Default 0.5 mm (from memory). */
   minProtrusionMm: number;
-  /** Self-leveling pads take this share of the catalog's repad hours. Default 0.5 (common practice). */
+  /** A self-leveling key takes this share of a glued key's time. Default 0.5 (common practice). */
   selfLevelingLaborFactor: number;
+  /**
+   * Pad-map labor = base + per key × keys repadded (self-leveling keys at the factor above).
+   * Base: taking the instrument apart, cleaning, putting it back together, regulating and leak-testing,
+   * whatever the number of keys. Default 1.5 h: a Benchrelay pricing default the owner sets, not a trade figure.
+   */
+  repadBaseHours: number;
+  /** Hours per key repadded with a glued pad. Default 0.25 h: a Benchrelay pricing default the owner sets. */
+  repadHoursPerKey: number;
 }
 
 export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
@@ -37,6 +45,8 @@ export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
   stemHeightsMm: Object.freeze([0.5, 1.0, 1.5]) as number[],
   minProtrusionMm: 0.5,
   selfLevelingLaborFactor: 0.5,
+  repadBaseHours: 1.5,
+  repadHoursPerKey: 0.25,
 }) as PadRules;
 
 const mm = (min: number, max: number, label: string) =>
@@ -60,6 +70,14 @@ export const padRulesSchema = z.object({
     .number({ error: 'The labor factor must be a number.' })
     .min(0.1, 'The labor factor must be at least 0.1.')
     .max(2, 'The labor factor must be at most 2.'),
+  repadBaseHours: z
+    .number({ error: 'Enter a number of hours.' })
+    .min(0, 'The base hours must be at least 0.')
+    .max(20, 'The base hours must be at most 20.'),
+  repadHoursPerKey: z
+    .number({ error: 'Enter a number of hours.' })
+    .min(0.05, 'The hours per key must be at least 0.05.')
+    .max(2, 'The hours per key must be at most 2.'),
 });
 
 /** Stored rules merged over the defaults; anything malformed falls back to the default. */

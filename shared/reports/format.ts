@@ -1,3 +1,4 @@
+import { formatCalendarDate, formatDateTime } from '../time/format.js';
 /** Plain-language numbers for the dashboard and the report tables. */
 
 export function formatDays(days: number | null, unit: 'business' | 'calendar' = 'business'): string {
@@ -12,16 +13,13 @@ export function formatHours(hours: number): string {
 }
 
 /** A date-only value ('2026-08-31') as people read it, without moving it through a time zone. */
-export function formatIsoDate(date: string, locale = 'en-US'): string {
-  const [y, m, d] = date.split('-').map(Number);
-  return new Intl.DateTimeFormat(locale, { month: 'short', day: 'numeric', year: 'numeric', timeZone: 'UTC' }).format(new Date(Date.UTC(y, m - 1, d)));
+export function formatIsoDate(date: string): string {
+  return formatCalendarDate(date);
 }
 
 /** An instant on a shop's clock, with the zone's short name so nobody guesses whose clock it is. */
-export function formatInstantIn(iso: string, timeZone: string, locale = 'en-US'): string {
-  return new Intl.DateTimeFormat(locale, {
-    timeZone, weekday: 'short', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short',
-  }).format(new Date(iso));
+export function formatInstantIn(iso: string, timeZone: string): string {
+  return formatDateTime(iso, timeZone);
 }
 
 /** Weeks of work as a percentage of one week's bench hours: 1.05 → "105 %". */

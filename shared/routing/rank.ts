@@ -182,8 +182,8 @@ export function rankShops(request: RoutingRequest): RoutingResult {
         reasons.push({
           kind: 'transport',
           text:
-            `Next relay run leaves ${origin.name} ${formatLocal(run.departureAt, origin.timeZone)} (${zoneLabel(origin.timeZone)}), ` +
-            `${formatHours(run.transitHours)} h on the road; arrives ${formatLocal(run.arrivalAt, c.timeZone)} (${zoneLabel(c.timeZone)}).`,
+            `Next relay run leaves ${origin.name} ${formatLocal(run.departureAt, origin.timeZone)}, ` +
+            `${formatHours(run.transitHours)} h on the road; arrives ${formatLocal(run.arrivalAt, c.timeZone)}.`,
         });
       } else if (origin.latitude != null && origin.longitude != null && c.latitude != null && c.longitude != null) {
         transport = 'road';
@@ -198,7 +198,7 @@ export function rankShops(request: RoutingRequest): RoutingResult {
           text:
             `No relay run from ${origin.name}: ${Math.round(distanceKm).toLocaleString('en-US')} km great-circle at ` +
             `${formatHours(settings.roadSpeedKmh)} km/h is ${formatHours(roadHours)} h, plus ${formatHours(settings.handlingHours)} h handling; ` +
-            `arrives about ${formatLocal(availableAt, c.timeZone)} (${zoneLabel(c.timeZone)}).`,
+            `arrives about ${formatLocal(availableAt, c.timeZone)}.`,
         });
       } else {
         reasons.push({ kind: 'unavailable', text: `No relay run from ${origin.name}, and no coordinates to estimate a trip.` });

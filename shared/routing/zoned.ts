@@ -1,4 +1,5 @@
 import { TZDate } from '@date-fns/tz';
+import { formatDate, formatDateTime } from '../time/format.js';
 import type { IsoWeekday } from '../domain.js';
 
 /** Wall-clock reading of an instant in a shop's time zone. Months are 1–12; weekdays ISO (Monday = 1). */
@@ -38,15 +39,9 @@ export function localDate(instant: Date, timeZone: string): string {
   return `${p.year}-${String(p.month).padStart(2, '0')}-${String(p.day).padStart(2, '0')}`;
 }
 
-/** "Tue, Jun 11, 07:30" in the shop's zone, for reasons people read (the screens write dates the same way). */
+/** "Tue 11 Jun 2024, 07:30 PDT" (or the date alone) in the shop's zone: the one format of shared/time/format.ts. */
 export function formatLocal(instant: Date, timeZone: string, withTime = true): string {
-  return new Intl.DateTimeFormat('en-US', {
-    timeZone,
-    weekday: 'short',
-    month: 'short',
-    day: 'numeric',
-    ...(withTime ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' } : {}),
-  }).format(instant);
+  return withTime ? formatDateTime(instant, timeZone) : formatDate(instant, timeZone);
 }
 
 /** "America/Los_Angeles" → "Los Angeles time". */

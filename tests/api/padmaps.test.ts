@@ -83,7 +83,7 @@ describe('pad maps API', () => {
 
     it('stores the readings in millimetres and the results, with the typed text kept', async () => {
       const res = await request(app).put(`/api/jobs/${job.id}/pad-map`).set('Cookie', cookies.techA).send(firstMap).expect(200);
-      expect(res.body.saved).toMatchObject({ created: true, labor: { standardHours: 6, hours: 3.75, selfLevelingPads: 3, gluedPads: 1 } });
+      expect(res.body.saved).toMatchObject({ created: true, labor: { standardHours: 6, hours: 2.13, keysRepadded: 4, selfLevelingPads: 3, gluedPads: 1 } });
       firstMapId = res.body.saved.padMapId;
       const stored = await PadMap.findOne({ where: { networkId, id: firstMapId } });
       expect(stored).toMatchObject({ instrumentId: instrument.id, jobId: job.id, shopId: shopA.id, unitSystem: 'mm' });
@@ -257,7 +257,7 @@ describe('pad maps API', () => {
   describe('pad rules', () => {
     it('everyone reads the rules; the defaults are those of the issue', async () => {
       const res = await request(app).get('/api/pad-rules').set('Cookie', cookies.techA).expect(200);
-      expect(res.body.rules).toEqual({ selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5 });
+      expect(res.body.rules).toEqual({ selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, repadBaseHours: 1.5, repadHoursPerKey: 0.25 });
     });
 
     it('only the owner changes them, within bounds, and the next save follows them', async () => {

@@ -9,6 +9,7 @@ describe('GET /api/shops/summary', () => {
   const app = buildApp();
   let ownerCookie: string;
   let deskCookie: string;
+  let managerCookie: string;
   let shopA: { id: string };
   let shopB: { id: string };
 
@@ -27,6 +28,9 @@ describe('GET /api/shops/summary', () => {
     const otherShop = await makeShop(other.id, { name: 'A bench' });
     const otherOwner = await makeUser(other.id, [{ shopId: null, role: 'owner' }]);
     await makeInstrumentWithJob(other.id, otherShop.id, otherOwner.id, { stage: 'intake' });
+    // a regional manager of A reads every shop of the network, but A is the one they run
+    const manager = await makeUser(net.id, [{ shopId: shopA.id, role: 'regional_manager' }]);
+    managerCookie = await signIn(app, manager.email);
     ownerCookie = await signIn(app, owner.email);
     deskCookie = await signIn(app, desk.email);
   });
@@ -45,6 +49,13 @@ describe('GET /api/shops/summary', () => {
   it('shows front desk only the shop they work at', async () => {
     const res = await request(app).get('/api/shops/summary').set('Cookie', deskCookie).expect(200);
     expect(res.body.shops.map((s: { id: string }) => s.id)).toEqual([shopA.id]);
+  });
+
+  it('lists for a regional manager only the shops they manage, not every shop they may read', async () => {
+    const res = await request(app).get('/api/shops/summary').set('Cookie', managerCookie).expect(200);
+    expect(res.body.shops.map((s: { id: string }) => s.id)).toEqual([shopA.id]);
+    // they still read shop B
+    await request(app).get(`/api/shops/${shopB.id}`).set('Cookie', managerCookie).expect(200);
   });
 
   it('needs sign-in', async () => {

@@ -37,7 +37,7 @@ describe('transfers API on the demo network', () => {
     expect(res.body.recommendedShopId).toBe(shop.PDX.id);
     const [portland, chicago] = res.body.ranked;
     expect(portland.transport).toBe('relay_run');
-    expect(portland.reasons[0].text).toMatch(/^Next relay run leaves Harborline Seattle (Tue|Thu), /);
+    expect(portland.reasons[0].text).toMatch(/^Next relay run leaves Harborline Seattle (Tue|Thu) \d{1,2} \w{3} \d{4}, \d\d:\d\d P[SD]T, /);
     expect(chicago.transport).toBe('road');
     expect(chicago.reasons[0].text).toMatch(/No relay run from Harborline Seattle: 2,7\d\d km great-circle at 60 km\/h/);
     expect(portland.reasons.some((r: { text: string }) => /This job: 18 h/.test(r.text))).toBe(true);

@@ -99,7 +99,7 @@ describe('browser: pad map for an alto saxophone, by keyboard', () => {
     await parts.locator('[data-part="PAD-S-30.0"]').getByText('Reserved 2').waitFor(); // Low C♯ and Low C
     await parts.locator('[data-part="PAD-S-45.5"]').getByText('Reserved 2').waitFor(); // Low B♭ and Low B
     expect(await parts.innerText()).toMatch(/Self-leveling 45\.5 mm[\s\S]*Low B♭, Low B/);
-    expect(await parts.locator('[data-labor]').innerText()).toMatch(/3 h estimated: 6 h in the catalog/);
+    expect(await parts.locator('[data-labor]').innerText()).toMatch(/2 h estimated for 4 keys repadded: 1.5 h base \+ 0.25 h per key \(4 self-leveling at 50 %\)/); // 1.5 + 0.25 × 4 × 0.5 = 2 h
 
     const stored = await PadMap.findOne({ where: { networkId, jobId } });
     expect(stored!.entries.filter((e) => e.cupDiameterMm != null)).toHaveLength(4);

@@ -1,20 +1,42 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import type { Worker } from 'bullmq';
-import { HistoryEvent, Instrument, Job, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
+import { mkdirSync } from 'node:fs';
+import { Op } from 'sequelize';
+import { HistoryEvent, Instrument, Job, RelayRun, Shop, Skill, Transfer, User } from '../../server/lib/models.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { startWorker } from '../../workers/processors.js';
 import { launchBrowser, signInInBrowser, startAppServer } from '../helpers/browser.js';
 import { closeServerResources } from '../helpers/close.js';
 import { uniq } from '../helpers/factories.js';
+import type { IsoWeekday } from '../../shared/domain.js';
 import { waitForIdleQueue } from '../helpers/transfers.js';
 
 /**
  * The regional manager requests a transfer of a baritone saxophone from Seattle, approves it from the
  * approvals queue, packs it (after the lifting caution), hands it over and receives it at Portland,
  * following it on the way; the worker runs in this process.
+ *
+ * The Seattle → Portland relay run is set, for this test, to leave only two days from today (Pacific) at
+ * 07:30 and take 3 h. A hand-over today therefore waits for that run: the screen must show the run's
+ * departure two days on at 07:30, not the hand-over time + 3 h.
  */
+const SHOTS = '/tmp/shots-domain';
+const PACIFIC = 'America/Los_Angeles';
+
+/** Today's calendar date in Los Angeles + `days`, as a UTC-noon Date (only its calendar fields are read). */
+function pacificDatePlus(days: number): Date {
+  const [y, m, d] = new Intl.DateTimeFormat('en-CA', { timeZone: PACIFIC, year: 'numeric', month: '2-digit', day: '2-digit' })
+    .format(new Date())
+    .split('-')
+    .map(Number);
+  return new Date(Date.UTC(y, m - 1, d + days, 12));
+}
+const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'];
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+/** "Tue 8 Dec 2026", spelled out here by hand rather than with the app's formatter. */
+const dayLabel = (d: Date) => `${WEEKDAYS[d.getUTCDay()]} ${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}`;
 describe('browser: a regional manager sends a baritone saxophone to another shop', () => {
   let browser: Browser;
   let app: { url: string; close(): Promise<void> };
@@ -23,6 +45,9 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
   let jobNumber: number;
   let networkId: string;
   const shops: Record<string, Shop> = {};
+  let runDay: Date;
+  let testRun: RelayRun;
+  let pausedRunIds: string[] = [];
 
   beforeAll(async () => {
     ({ networkId } = await loadDemoNetwork());
@@ -46,6 +71,17 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
       { networkId, instrumentId: instrument.id, jobId: job.id, shopId: shops.SEA.id, userId: manager.id, kind: 'job_opened', summary: `Job ${number} opened at Seattle` },
     ]);
     jobNumber = job.number;
+
+    // the only Seattle → Portland run leaves two days from today at 07:30 Pacific and takes 3 h
+    runDay = pacificDatePlus(2);
+    const isoWeekday = (runDay.getUTCDay() === 0 ? 7 : runDay.getUTCDay()) as IsoWeekday;
+    const existing = await RelayRun.findAll({ where: { networkId, fromShopId: shops.SEA.id, toShopId: shops.PDX.id, active: true } });
+    pausedRunIds = existing.map((r) => r.id);
+    await RelayRun.update({ active: false }, { where: { networkId, id: { [Op.in]: pausedRunIds } } });
+    testRun = await RelayRun.create({
+      networkId, fromShopId: shops.SEA.id, toShopId: shops.PDX.id, weekdays: [isoWeekday], departureTime: '07:30:00', transitHours: 3,
+    });
+    mkdirSync(SHOTS, { recursive: true });
     worker = startWorker(4);
     await waitForIdleQueue();
     app = await startAppServer();
@@ -53,6 +89,10 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
   });
 
   afterAll(async () => {
+    // the demo network's runs as they were, for the browser tests after this one (the test's run stays,
+    // inactive: the transfer names it)
+    await testRun?.update({ active: false });
+    if (pausedRunIds.length) await RelayRun.update({ active: true }, { where: { networkId, id: { [Op.in]: pausedRunIds } } });
     await browser?.close();
     await app?.close();
     await worker?.close();
@@ -115,14 +155,58 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     await pack.getByRole('button', { name: 'Mark as packed' }).click();
     await pack.getByText('Confirm you have read the lifting caution: two people or a cart.').waitFor();
     await pack.getByLabel(/I have read the lifting caution/).check();
+    await pack.getByLabel('Number of cases').fill('2');
+    await pack.getByLabel('Contents and accessories').fill('Bari in its case; neck, mouthpiece and strap in the second case');
+    await pack.getByLabel('Condition on departure').fill('Low B-flat pad leaks; bow guard loose');
     await pack.getByRole('button', { name: 'Mark as packed' }).click();
     await main.locator('header').getByText('Packed', { exact: true }).waitFor();
 
-    // hand over to the relay run
+    // meanwhile the job page says a transfer is open, and links to it
+    await page.goto(`${app.url}/jobs/${transfer.jobId}?shop=${shops.SEA.id}`);
+    const openNote = page.getByRole('status', { name: 'Open transfer' });
+    await openNote.getByText(/A transfer from Harborline Seattle to Harborline Portland is packed/).waitFor();
+    await openNote.getByRole('link', { name: 'Open the transfer' }).click();
+    await page.waitForURL((u) => u.pathname === `/transfers/${transfer.id}`);
+
+    // hand over today: it waits for the run two days on, 07:30 Pacific, and is expected at 10:30
     await page.getByRole('button', { name: 'Handed over to the courier' }).click();
     await main.locator('header').getByText('In transit', { exact: true }).waitFor();
-    await page.getByText(/Left on the relay run: Harborline Seattle → Harborline Portland/).waitFor();
+    const details = page.getByRole('region', { name: 'Details' });
+    await details.getByText('Waiting for the run of').waitFor();
+    const detailsText = await details.innerText();
+    expect(detailsText).toMatch(new RegExp(`Waiting for the run of\\s+${dayLabel(runDay)}, 07:30 P[SD]T`));
+    expect(detailsText).toMatch(new RegExp(`Expected\\s+${dayLabel(runDay)}, 10:30 P[SD]T`));
+    expect(detailsText).toMatch(/Cases\s+2/);
+    await page.getByText(new RegExp(`Handed over for the relay run of ${dayLabel(runDay)}, 07:30 P[SD]T: Harborline Seattle → Harborline Portland`)).waitFor();
     expect((await Job.findOne({ where: { networkId, number: jobNumber } }))!.stage).toBe('in_transit');
+    for (const width of [1280, 390]) {
+      await page.setViewportSize({ width, height: 900 });
+      await page.screenshot({ path: `${SHOTS}/transfer-in-transit-${width}.png`, fullPage: true });
+      const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+      expect(overflow).toBeLessThanOrEqual(0);
+    }
+    await page.setViewportSize({ width: 1280, height: 900 });
+
+    // the manifest opens: a PDF, stored at packing
+    const manifest = await page.request.get(`${app.url}/api/transfers/${transfer.id}/manifest`);
+    expect(manifest.status()).toBe(200);
+    expect(manifest.headers()['content-type']).toBe('application/pdf');
+
+    // the job page: on the relay run from Seattle to Portland, not "at Seattle"
+    await page.goto(`${app.url}/jobs/${transfer.jobId}?shop=${shops.SEA.id}`);
+    const onRun = page.getByRole('status', { name: 'Open transfer' });
+    await onRun.getByText(new RegExp(`On the relay run from Harborline Seattle to Harborline Portland, leaving ${dayLabel(runDay)}, 07:30 P[SD]T, expected ${dayLabel(runDay)}, 10:30 P[SD]T`)).waitFor();
+    for (const width of [1280, 390]) {
+      await page.setViewportSize({ width, height: 900 });
+      await page.screenshot({ path: `${SHOTS}/job-in-transit-${width}.png`, fullPage: true });
+    }
+    await page.setViewportSize({ width: 1280, height: 900 });
+    // nor is the instrument "now at" Seattle on its registry page
+    await page.goto(`${app.url}/registry/instruments/${transfer.instrumentId}?shop=${shops.SEA.id}`);
+    await page.getByText(new RegExp(`Baritone saxophone, on the relay run from Harborline Seattle to Harborline Portland, expected ${dayLabel(runDay)}, 10:30 P[SD]T`)).waitFor();
+    expect(await page.getByRole('main').innerText()).not.toContain('now at Harborline Seattle');
+    await page.goto(`${app.url}/transfers/${transfer.id}?shop=${shops.SEA.id}`);
+    await main.locator('header').getByText('In transit', { exact: true }).waitFor();
 
     // receive at Portland: a wrong serial is refused, the right one (typed loosely) accepted
     const receive = page.getByRole('region', { name: 'Receive' });
@@ -136,7 +220,7 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     // followed all the way: the timeline, the manifest, and the job now at Portland
     const timeline = page.getByRole('region', { name: 'Timeline' });
     await timeline.getByText(/Received: Harborline Seattle → Harborline Portland/).waitFor();
-    for (const step of ['Transfer requested', 'Transfer approved', 'Packed for the relay run', 'Left on the relay run']) {
+    for (const step of ['Transfer requested', 'Transfer approved', 'Packed for the relay run', 'Handed over for the relay run']) {
       expect(await timeline.innerText()).toContain(step);
     }
     const download = page.waitForEvent('download');

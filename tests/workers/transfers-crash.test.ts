@@ -82,11 +82,12 @@ describe('a worker killed between the commit and the e-mail', () => {
     worker = startWorker(4, { stalledInterval: 500 });
     await waitForEvent(networkId, id, 'requested', 30_000);
     await waitForEvent(networkId, id, 'approved', 30_000);
-    await waitFor(async () => (await Transfer.findOne({ where: { networkId, id } }))?.manifestKey, 'the manifest', 30_000);
 
     // the rest of the way, on the recovered worker
     await request(app).post(`/api/transfers/${id}/pack`).set('Cookie', cookies.originDesk).send({ liftingAcknowledged: true }).expect(202);
     await waitForState(networkId, id, 'packed');
+    // the manifest is made at packing
+    await waitFor(async () => (await Transfer.findOne({ where: { networkId, id } }))?.manifestKey, 'the manifest', 30_000);
     await request(app).post(`/api/transfers/${id}/hand-over`).set('Cookie', cookies.originDesk).send({}).expect(202);
     await waitForState(networkId, id, 'in_transit');
     await request(app).post(`/api/transfers/${id}/receive`).set('Cookie', cookies.destinationDesk).send({ serial, method: 'scan' }).expect(202);

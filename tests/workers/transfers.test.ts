@@ -169,7 +169,7 @@ describe('transfer lifecycle through the worker (PostgreSQL queue)', { timeout: 
       `Transfer requested: Baritone saxophone to ${world.destination.name}`,
       `Transfer approved: Baritone saxophone, ${world.origin.name} → ${world.destination.name}`,
       `Packed for ${world.destination.name}: Baritone saxophone`,
-      `On the road to ${world.destination.name}: Baritone saxophone`,
+      `Handed over for the relay run to ${world.destination.name}: Baritone saxophone`,
       `Received at ${world.destination.name}: Baritone saxophone`,
     ]);
     const inbox = await request(app).get('/api/notifications').set('Cookie', cookies.destinationTech).expect(200);

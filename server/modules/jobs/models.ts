@@ -74,6 +74,11 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare estimateApprovedAt: CreationOptional<Date | null>;
   declare estimateApprovedByName: CreationOptional<string | null>;
   declare estimateApprovalMethod: CreationOptional<EstimateApprovalMethod | null>;
+  /** Moves on with every change of the estimate's lines, tax or total. */
+  declare estimateVersion: CreationOptional<number>;
+  /** The total and version the customer approved; a later total above it needs a new approval. */
+  declare approvedTotalCents: CreationOptional<number | null>;
+  declare approvedEstimateVersion: CreationOptional<number | null>;
   declare openedByUserId: string;
   declare openedAt: CreationOptional<Date>;
   declare readyAt: CreationOptional<Date | null>;
@@ -104,6 +109,9 @@ Job.init(
     estimateApprovedAt: DataTypes.DATE,
     estimateApprovedByName: DataTypes.TEXT,
     estimateApprovalMethod: { type: DataTypes.TEXT, validate: oneOf(ESTIMATE_APPROVAL_METHODS) },
+    estimateVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+    approvedTotalCents: DataTypes.INTEGER,
+    approvedEstimateVersion: DataTypes.INTEGER,
     openedByUserId: refColumn(),
     openedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
     readyAt: DataTypes.DATE,

@@ -12,17 +12,34 @@ import {
   Shop,
   Skill,
   TimeLog,
+  Transfer,
   User,
   sequelize,
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { customerViewById, visibleCustomerNames } from '../registry/service.js';
+import { appendHistory, customerViewById, visibleCustomerNames } from '../registry/service.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
-import { estimateTotals, formatBasisPoints, formatCents, laborHours, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
+import {
+  estimateTotals,
+  formatBasisPoints,
+  formatCents,
+  laborHours,
+  lineTotalCents,
+  type EstimateLine,
+  type EstimateTotals,
+} from '../../../shared/jobs/estimate.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate } from '../../../shared/jobs/promised-date.js';
-import { allowedMoves, checkMove, mayRecordApproval, rolesAtShop, type MainStage } from '../../../shared/jobs/stage-machine.js';
+import {
+  allowedMoves,
+  checkMove,
+  estimateNeedsReapproval,
+  mayRecordApproval,
+  rolesAtShop,
+  type JobState,
+  type MainStage,
+} from '../../../shared/jobs/stage-machine.js';
 import { cautionsFor } from '../../../shared/jobs/cautions.js';
 import {
   ESTIMATE_APPROVAL_METHOD_LABELS,
@@ -292,7 +309,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     include: [...summaryIncludes(), { model: User, as: 'openedBy', attributes: ['id', 'name'] }],
   }))!;
   const shop = await findShop(actor.networkId, job.shopId);
-  const [items, logs, history, technicians, skills, customer] = await Promise.all([
+  const [items, logs, history, technicians, skills, customer, openTransfer] = await Promise.all([
     lineItemsOf(job),
     TimeLog.findAll({
       where: { networkId: actor.networkId, jobId: job.id },
@@ -308,13 +325,22 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     techniciansAt(actor.networkId, job.shopId),
     networkSkills(actor.networkId),
     customerViewById(actor, job.customerId ?? null),
+    Transfer.findOne({
+      where: { networkId: actor.networkId, jobId: job.id, state: { [Op.in]: ['requested', 'approved', 'packed', 'in_transit'] } },
+      include: [
+        { association: 'fromShop', attributes: ['id', 'name', 'timeZone'] },
+        { association: 'toShop', attributes: ['id', 'name', 'timeZone'] },
+      ],
+    }) as Promise<(Transfer & { fromShop: Shop; toShop: Shop }) | null>,
   ]);
 
   const row = asRow(job);
   const roles = rolesFor(actor, job.shopId);
   const canUpdate = actor.ability.can('update', subject('Job', row) as never);
   const canMove = actor.ability.can('move_stage', subject('Job', row) as never);
-  const moves = canMove ? allowedMoves(job, roles) : [];
+  const totals = estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints);
+  const needsReapproval = estimateNeedsReapproval(job, totals.totalCents);
+  const moves = canMove ? allowedMoves(jobState(job, needsReapproval), roles) : [];
   // the registry's rule: contact (and a private person's name) only for the shops that serve the customer
   const contactShown = customer?.contactVisible ?? false;
 
@@ -346,8 +372,23 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
               // who approved is the customer or their contact person: shown where the customer's contact is
               byName: !customer || contactShown ? job.estimateApprovedByName : null,
               method: job.estimateApprovalMethod,
+              totalCents: job.approvedTotalCents ?? null,
+              version: job.approvedEstimateVersion ?? null,
             }
           : null,
+      estimateVersion: job.estimateVersion ?? 0,
+      openTransfer: openTransfer
+        ? {
+            id: openTransfer.id,
+            state: openTransfer.state as 'requested' | 'approved' | 'packed' | 'in_transit',
+            fromShop: { id: openTransfer.fromShop.id, name: openTransfer.fromShop.name, timeZone: openTransfer.fromShop.timeZone },
+            toShop: { id: openTransfer.toShop.id, name: openTransfer.toShop.name, timeZone: openTransfer.toShop.timeZone },
+            departedAt: iso(openTransfer.departedAt),
+            expectedArrivalAt: iso(openTransfer.expectedArrivalAt),
+            onRelayRun: !!openTransfer.relayRunId,
+          }
+        : null,
+      needsReapproval,
       readyAt: iso(job.readyAt),
       releasedAt: iso(job.releasedAt),
       openedBy: person(job.openedBy),
@@ -371,7 +412,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
         }
       : null,
     lineItems: items.map(lineDto),
-    totals: estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints),
+    totals,
     timeLogs,
     timeByTechnician: [...byTech.values()].sort((a, b) => b.minutes - a.minutes),
     history: history.map(
@@ -382,7 +423,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       update: canUpdate,
       moveStage: canMove && moves.length > 0,
       recordApproval: canUpdate && mayRecordApproval(roles) && !['intake', 'released'].includes(job.stage),
-      editEstimate: canUpdate && !ESTIMATE_FROZEN.includes(job.stage),
+      editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !ESTIMATE_FROZEN.includes(job.stage),
       logTime: canUpdate,
       addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
     },
@@ -453,7 +494,7 @@ export async function applyStageMove(
   by: { userId: string | null; roles: Role[]; via: 'person' | 'transfer'; note?: string },
   transaction: Transaction,
 ): Promise<MoveResult> {
-  const check = checkMove(job, to, by.roles, by.via);
+  const check = checkMove(jobState(job, by.via === 'person' ? await raisedSinceApproval(job, transaction) : false), to, by.roles, by.via);
   if (!check.ok) {
     if (check.reason === 'not_your_move') throw new AppError(403, 'forbidden', check.message);
     throw new AppError(409, 'move_refused', check.message, undefined, { reason: check.reason });
@@ -605,9 +646,69 @@ async function queueCustomerMail(job: Job, kind: 'estimate' | 'ready', eventId: 
 
 async function editableJob(actor: Actor, jobId: string, transaction: Transaction) {
   const job = await readableJob(actor, jobId, { transaction, lock: true });
-  assertCan(actor.ability, 'update', 'Job', asRow(job), 'You cannot change jobs at this shop.');
+  assertCan(actor.ability, 'edit_estimate', 'Job', asRow(job), 'You cannot change estimates at this shop.');
   if (ESTIMATE_FROZEN.includes(job.stage)) throw conflict('The work is finished; the estimate can no longer change.');
   return job;
+}
+
+export function jobState(job: Job, needsReapproval: boolean): JobState {
+  return { stage: job.stage, stageBeforeHold: job.stageBeforeHold, estimateApprovedAt: job.estimateApprovedAt, needsReapproval };
+}
+
+/** The estimate's totals as they stand, at the job's shop's tax rate (or another rate, for a shop it is going to). */
+export async function currentEstimate(job: Job, transaction?: Transaction, taxRateBasisPoints?: number): Promise<EstimateTotals> {
+  const items = await lineItemsOf(job, transaction);
+  const rate = taxRateBasisPoints ?? (await findShop(job.networkId, job.shopId, transaction)).taxRateBasisPoints;
+  return estimateTotals(items.map(toEstimateLine), rate);
+}
+
+async function raisedSinceApproval(job: Job, transaction?: Transaction) {
+  if (job.approvedTotalCents == null) return false;
+  return estimateNeedsReapproval(job, (await currentEstimate(job, transaction)).totalCents);
+}
+
+/**
+ * Every change of an estimate's lines, tax or total moves its version on and leaves an entry on the
+ * instrument's history with the totals before and after; a total above the approved amount says that it
+ * needs a new approval. Changes that leave lines, tax and total as they were leave nothing.
+ */
+export async function recordEstimateChange(
+  job: Job,
+  userId: string | null,
+  what: string,
+  before: EstimateTotals,
+  transaction: Transaction,
+  after?: EstimateTotals,
+) {
+  const now = after ?? (await currentEstimate(job, transaction));
+  const same =
+    now.totalCents === before.totalCents &&
+    now.taxRateBasisPoints === before.taxRateBasisPoints &&
+    now.lineCents.length === before.lineCents.length &&
+    now.lineCents.every((c, i) => c === before.lineCents[i]);
+  if (same) return null;
+  const version = (job.estimateVersion ?? 0) + 1;
+  await job.update({ estimateVersion: version }, { transaction });
+  const raised = estimateNeedsReapproval(job, now.totalCents);
+  const approvedNote = job.approvedTotalCents != null
+    ? raised
+      ? `; approved ${formatCents(job.approvedTotalCents)} (v${job.approvedEstimateVersion ?? 0}), now ${formatCents(now.totalCents)}: needs a new approval`
+      : `; within the approved ${formatCents(job.approvedTotalCents)}`
+    : '';
+  return appendHistory(
+    {
+      networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: job.shopId, userId,
+      kind: 'estimate_changed',
+      summary: `Job ${job.number}: estimate v${version}, ${what}; total ${formatCents(before.totalCents)} → ${formatCents(now.totalCents)}${approvedNote}`,
+      data: {
+        version, what,
+        before: { subtotalCents: before.subtotalCents, taxRateBasisPoints: before.taxRateBasisPoints, taxCents: before.taxCents, totalCents: before.totalCents, lines: before.lineCents.length },
+        after: { subtotalCents: now.subtotalCents, taxRateBasisPoints: now.taxRateBasisPoints, taxCents: now.taxCents, totalCents: now.totalCents, lines: now.lineCents.length },
+        approvedTotalCents: job.approvedTotalCents ?? null, approvedVersion: job.approvedEstimateVersion ?? null, needsReapproval: raised,
+      },
+    },
+    transaction,
+  );
 }
 
 /** Keeps the job's estimated hours (read by routing and bench load) equal to its labor lines. */
@@ -621,6 +722,7 @@ export async function addLineItem(actor: Actor, jobId: string, input: LineItemCr
   await sequelize.transaction(async (transaction) => {
     const job = await editableJob(actor, jobId, transaction);
     const shop = await findShop(actor.networkId, job.shopId, transaction);
+    const before = await currentEstimate(job, transaction, shop.taxRateBasisPoints);
     const last = (await JobLineItem.max('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) as number | null;
     const position = (last ?? -1) + 1;
     if (input.kind === 'labor') {
@@ -667,6 +769,7 @@ export async function addLineItem(actor: Actor, jobId: string, input: LineItemCr
       );
     }
     await refreshEstimatedHours(job, transaction);
+    await recordEstimateChange(job, actor.id, `line added (${input.kind === 'labor' ? 'labor' : input.description})`, before, transaction);
   });
   return jobDetail(actor, jobId);
 }
@@ -686,6 +789,7 @@ export async function updateLineItem(
   await sequelize.transaction(async (transaction) => {
     const job = await editableJob(actor, jobId, transaction);
     const item = await findLineItem(actor, job, itemId, transaction);
+    const before = await currentEstimate(job, transaction);
     const changes: Partial<JobLineItem> = {};
     if (input.description !== undefined) changes.description = input.description;
     if (item.kind === 'labor') {
@@ -700,6 +804,7 @@ export async function updateLineItem(
     }
     await item.update(changes, { transaction });
     await refreshEstimatedHours(job, transaction);
+    await recordEstimateChange(job, actor.id, `line changed (${item.description})`, before, transaction);
   });
   return jobDetail(actor, jobId);
 }
@@ -708,8 +813,10 @@ export async function removeLineItem(actor: Actor, jobId: string, itemId: string
   await sequelize.transaction(async (transaction) => {
     const job = await editableJob(actor, jobId, transaction);
     const item = await findLineItem(actor, job, itemId, transaction);
+    const before = await currentEstimate(job, transaction);
     await item.destroy({ transaction });
     await refreshEstimatedHours(job, transaction);
+    await recordEstimateChange(job, actor.id, `line removed (${item.description})`, before, transaction);
   });
   return jobDetail(actor, jobId);
 }
@@ -728,8 +835,14 @@ export async function recordApproval(actor: Actor, jobId: string, input: z.infer
     if (job.stage === 'released') throw conflict('This job has been released.');
     const at = input.approvedAt ? new Date(input.approvedAt) : new Date();
     if (at.getTime() > Date.now() + 5 * 60_000) throw badRequest('Some fields need attention.', { approvedAt: 'That is in the future.' });
+    // the approval is of this version and this total: a later raise above it needs a new one
+    const totals = await currentEstimate(job, transaction);
+    const version = job.estimateVersion ?? 0;
     await job.update(
-      { estimateApprovedAt: at, estimateApprovedByName: input.approvedByName, estimateApprovalMethod: input.method },
+      {
+        estimateApprovedAt: at, estimateApprovedByName: input.approvedByName, estimateApprovalMethod: input.method,
+        approvedTotalCents: totals.totalCents, approvedEstimateVersion: version,
+      },
       { transaction },
     );
     await recordHistory(
@@ -738,8 +851,8 @@ export async function recordApproval(actor: Actor, jobId: string, input: z.infer
       'estimate_approved',
       // the approver's name stays on the job (shown where the customer's contact is); the timeline is read
       // network-wide, so its event says how, not who
-      `Job ${job.number}: estimate approved (${ESTIMATE_APPROVAL_METHOD_LABELS[input.method].toLowerCase()})`,
-      { method: input.method, approvedAt: at.toISOString() },
+      `Job ${job.number}: estimate v${version} approved (${ESTIMATE_APPROVAL_METHOD_LABELS[input.method].toLowerCase()}), ${formatCents(totals.totalCents)}`,
+      { method: input.method, approvedAt: at.toISOString(), totalCents: totals.totalCents, version },
       transaction,
     );
     if (job.stage === 'assessed') {

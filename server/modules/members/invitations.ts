@@ -16,6 +16,7 @@ import {
   type InvitationStatus,
 } from '../../../shared/schemas/people.js';
 import { audit } from './service.js';
+import { formatDateTime } from '../../../shared/time/format.js';
 import { notify } from '../notifications/service.js';
 
 /**
@@ -87,7 +88,7 @@ const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', 
 async function sendInvitationMail(inv: Invitation, token: string, networkName: string, inviterName: string, names: Map<string, string>) {
   const link = invitationLink(token);
   const roles = describeRoles(inv.roles, names);
-  const until = new Date(inv.expiresAt).toUTCString();
+  const until = formatDateTime(inv.expiresAt, 'UTC');
   const text = [
     `${inviterName} invites you to ${networkName} on Benchrelay.`,
     '',

@@ -18,11 +18,21 @@ import type {
 } from '../../../shared/schemas/shops.js';
 import { audit } from '../members/service.js';
 
-/** The shops a person may see, each with its open jobs counted per stage (one aggregate query). */
+/**
+ * The home page's shops: those where the person holds a role (the owner: every shop), each with its open
+ * jobs counted per stage (one aggregate query). A regional manager may read every shop of the network, but
+ * their home lists the shops they manage.
+ */
 export async function shopSummaries(actor: Actor) {
   const where = accessibleWhere(actor.ability, 'read', 'Shop');
   if (!where) return [];
-  const shops = await Shop.findAll({ where: { ...where, networkId: actor.networkId }, order: [['name', 'ASC']] });
+  const owner = actor.memberships.some((m) => m.role === 'owner');
+  const ownShopIds = [...new Set(actor.memberships.map((m) => m.shopId).filter((id): id is string => !!id))];
+  if (!owner && !ownShopIds.length) return [];
+  const shops = await Shop.findAll({
+    where: { [Op.and]: [where, { networkId: actor.networkId }, ...(owner ? [] : [{ id: { [Op.in]: ownShopIds } }])] },
+    order: [['name', 'ASC']],
+  });
   if (!shops.length) return [];
   const counts = await sequelize.query<{ shop_id: string; stage: string; n: string }>(
     `select shop_id, stage, count(*) as n

@@ -14,6 +14,7 @@ import { padKeysFor } from '../../../shared/padmap/keys.js';
 import { padRulesSchema, resolvePadRules, type PadRules } from '../../../shared/padmap/rules.js';
 import { suggestFromMaps, type EarlierMap, type Suggestions } from '../../../shared/padmap/suggest.js';
 import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/service.js';
+import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
 
 /**
  * Pad maps: the per-key measurements of a repad and the pads chosen for them. A map is kept with the
@@ -280,6 +281,7 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
       : await PadMap.create({ networkId: actor.networkId, instrumentId: instrument.id, jobId: job.id, createdByUserId: actor.id, ...values }, { transaction });
 
     // the job's pad lines are replaced as a whole; labor and other parts on the job stay as they are
+    const estimateBefore = await currentEstimate(job, transaction);
     const padPartIds = new Set([...catalog.self_leveling, ...catalog.glued].map((p) => p.partId).filter((id): id is string => !!id));
     await JobLineItem.destroy({ where: { networkId: actor.networkId, jobId: job.id, kind: 'part', partId: { [Op.in]: [...padPartIds] } }, transaction });
     const lastPosition = (await JobLineItem.max<number, JobLineItem>('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) ?? -1;
@@ -299,6 +301,8 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
       })),
       { transaction },
     );
+
+    await recordEstimateChange(job, actor.id, 'pad lines replaced by the pad map', estimateBefore, transaction);
 
     const reservation = await syncJobReservations({
       networkId: actor.networkId,

@@ -379,6 +379,14 @@ export async function getInstrument(actor: Actor, id: string) {
     openedAt: j.opened_at, readyAt: j.ready_at, releasedAt: j.released_at, open: j.stage !== 'released',
   }));
   const sameSerial = await checkSerial(actor, { serial: instrument.serial, maker: instrument.maker });
+  // on the road it is at neither shop: say which run it is on and when it is expected
+  const [onRoad] = await sequelize.query<{
+    id: string; from_shop_id: string; to_shop_id: string; departed_at: Date | null; expected_arrival_at: Date | null; relay_run_id: string | null;
+  }>(
+    `select id, from_shop_id, to_shop_id, departed_at, expected_arrival_at, relay_run_id
+       from transfers where network_id = :networkId and instrument_id = :id and state = 'in_transit' limit 1`,
+    { replacements: { networkId, id }, type: QueryTypes.SELECT },
+  );
 
   return {
     instrument: {
@@ -391,6 +399,12 @@ export async function getInstrument(actor: Actor, id: string) {
     openJob: jobViews.find((j) => j.open) ?? null,
     jobs: jobViews,
     otherMakers: sameSerial.otherMakers,
+    onRoad: onRoad
+      ? {
+          transferId: onRoad.id, fromShop: shopRef(onRoad.from_shop_id), toShop: shopRef(onRoad.to_shop_id),
+          departedAt: onRoad.departed_at, expectedArrivalAt: onRoad.expected_arrival_at, onRelayRun: !!onRoad.relay_run_id,
+        }
+      : null,
   };
 }
 
@@ -863,4 +877,25 @@ async function importRow(ctx: ImportContext, row: ImportRow, attempt = 0): Promi
     }
     throw err;
   }
+}
+
+
+/**
+ * One entry on an instrument's work history, for changes other modules make to a job (an estimate's
+ * lines, tax or total). The registry owns the history; other modules write to it through here.
+ */
+export async function appendHistory(
+  entry: {
+    networkId: string;
+    instrumentId: string;
+    jobId: string | null;
+    shopId: string | null;
+    userId: string | null;
+    kind: string;
+    summary: string;
+    data: Record<string, unknown>;
+  },
+  transaction?: Transaction,
+) {
+  return HistoryEvent.create(entry, { transaction });
 }

@@ -3,7 +3,8 @@ import QRCode from 'qrcode';
 import { INSTRUMENT_FAMILY_LABELS, type InstrumentFamily } from '../../../shared/domain.js';
 import { LIFTING_CAUTION, TRANSFER_STATE_LABELS } from '../../../shared/transfers.js';
 import { formatWeekdays, formatHours } from '../../../shared/routing/rank.js';
-import { formatLocal, zoneLabel } from '../../../shared/routing/zoned.js';
+import { zoneLabel } from '../../../shared/routing/zoned.js';
+import { formatDate, formatDateTime } from '../../../shared/time/format.js';
 import type { TransferState } from '../../../shared/domain.js';
 
 /** What the manifest shows; the service fills it from the transfer's rows. */
@@ -26,8 +27,16 @@ export interface ManifestContent {
   approvedBy: string | null;
   packedBy: string | null;
   packedAt: Date | null;
+  /** When the origin handed it over to the run or the courier. */
+  handedOverAt: Date | null;
+  /** The run's departure (or the courier's pick-up) once handed over. */
   departedAt: Date | null;
   expectedArrivalAt: Date | null;
+  /** Packed but not handed over yet: the run it is packed for. */
+  nextRunDepartureAt: Date | null;
+  caseCount: number;
+  contents: string | null;
+  departureCondition: string | null;
   heavyCase: boolean;
   generatedAt: Date;
 }
@@ -69,7 +78,7 @@ export async function renderManifest(m: ManifestContent): Promise<Buffer> {
   doc.image(qr, left + width - 120, 54, { width: 120 });
   doc.font('Helvetica-Bold').fontSize(20).text('Transfer manifest', left, 58, { width: width - 140 });
   doc.font('Helvetica').fontSize(10).fillColor('#555d66').text(latin1(`Benchrelay - ${m.url}`), { width: width - 140 });
-  doc.text(latin1(`State: ${TRANSFER_STATE_LABELS[m.state]} - printed ${m.generatedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC`), {
+  doc.text(latin1(`State: ${TRANSFER_STATE_LABELS[m.state]} - printed ${formatDateTime(m.generatedAt, m.from.timeZone)}`), {
     width: width - 140,
   });
   doc.fillColor('#1c2024');
@@ -104,14 +113,22 @@ export async function renderManifest(m: ManifestContent): Promise<Buffer> {
       ? `${formatWeekdays(m.run.weekdays)} at ${m.run.departureTime.slice(0, 5)} (${zoneLabel(m.from.timeZone)}), ${formatHours(m.run.transitHours)} h on the road`
       : 'No relay run chosen yet (or an ad-hoc courier)',
   );
-  if (m.departedAt) row('Left', `${formatLocal(m.departedAt, m.from.timeZone)} (${zoneLabel(m.from.timeZone)})`);
-  if (m.expectedArrivalAt) row('Expected', `${formatLocal(m.expectedArrivalAt, m.to.timeZone)} (${zoneLabel(m.to.timeZone)})`);
+  const runDate = m.departedAt ?? m.nextRunDepartureAt;
+  if (m.run) row('Run date', runDate ? `${formatDate(runDate, m.from.timeZone)}, leaves ${formatDateTime(runDate, m.from.timeZone)}` : 'The run has no departure scheduled');
+  if (m.handedOverAt) row('Handed over', formatDateTime(m.handedOverAt, m.from.timeZone));
+  if (m.departedAt && !m.run) row('Left', formatDateTime(m.departedAt, m.from.timeZone));
+  if (m.expectedArrivalAt) row('Expected', formatDateTime(m.expectedArrivalAt, m.to.timeZone));
   row('Reason', m.reason);
+
+  section('Contents');
+  row('Number of cases', String(m.caseCount));
+  row('Contents and accessories', m.contents ?? 'Instrument in its case; nothing else recorded');
+  row('Condition on departure', m.departureCondition ?? 'Not recorded at packing');
 
   section('People');
   row('Requested by', m.requestedBy);
   row('Approved by', m.approvedBy ?? 'Not approved yet');
-  row('Packed by', m.packedBy ? `${m.packedBy}${m.packedAt ? `, ${formatLocal(m.packedAt, m.from.timeZone)}` : ''}` : 'Not packed yet');
+  row('Packed by', m.packedBy ? `${m.packedBy}${m.packedAt ? `, ${formatDateTime(m.packedAt, m.from.timeZone)}` : ''}` : 'Not packed yet');
 
   if (m.heavyCase) {
     section('Lifting caution');
@@ -123,6 +140,19 @@ export async function renderManifest(m: ManifestContent): Promise<Buffer> {
     .font('Helvetica')
     .fontSize(11)
     .text('Scan the QR code or open the transfer, then scan or type the serial number engraved on the instrument to confirm receipt. A different serial is refused.', left, doc.y, { width });
+
+  section('Signatures');
+  const signature = (label: string) => {
+    doc.moveDown(1.2);
+    const y = doc.y;
+    doc.font('Helvetica').fontSize(11).text(label, left, y, { width: 200 });
+    doc.moveTo(left + 200, y + 12).lineTo(left + width - 120, y + 12).strokeColor('#1c2024').stroke();
+    doc.text('Date', left + width - 110, y, { width: 30 });
+    doc.moveTo(left + width - 75, y + 12).lineTo(left + width, y + 12).stroke();
+    doc.y = y + 16;
+  };
+  signature(latin1(`Handed over by (${m.from.name})`));
+  signature(latin1(`Received by (${m.to.name})`));
 
   doc.end();
   return finished;

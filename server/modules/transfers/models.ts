@@ -29,9 +29,15 @@ export class Transfer extends Model<InferAttributes<Transfer>, InferCreationAttr
   declare requestedAt: CreationOptional<Date>;
   declare approvedAt: CreationOptional<Date | null>;
   declare packedAt: CreationOptional<Date | null>;
+  /** When the origin handed it over; on a relay run it then waits for the run's departure (`departedAt`). */
+  declare handedOverAt: CreationOptional<Date | null>;
   declare departedAt: CreationOptional<Date | null>;
   declare expectedArrivalAt: CreationOptional<Date | null>;
   declare receivedAt: CreationOptional<Date | null>;
+  /** Recorded at the pack step for the manifest. */
+  declare caseCount: CreationOptional<number | null>;
+  declare contents: CreationOptional<string | null>;
+  declare departureCondition: CreationOptional<string | null>;
   /** Object key of the manifest PDF. */
   declare manifestKey: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
@@ -57,9 +63,13 @@ Transfer.init(
     requestedAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
     approvedAt: DataTypes.DATE,
     packedAt: DataTypes.DATE,
+    handedOverAt: DataTypes.DATE,
     departedAt: DataTypes.DATE,
     expectedArrivalAt: DataTypes.DATE,
     receivedAt: DataTypes.DATE,
+    caseCount: DataTypes.INTEGER,
+    contents: DataTypes.TEXT,
+    departureCondition: DataTypes.TEXT,
     manifestKey: DataTypes.TEXT,
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,

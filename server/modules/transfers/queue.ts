@@ -24,6 +24,10 @@ export interface TransferStepData {
   reason?: string | null;
   relayRunId?: string | null;
   receiveMethod?: 'scan' | 'typed';
+  /** Pack step: what travels, for the manifest. */
+  caseCount?: number;
+  contents?: string | null;
+  departureCondition?: string | null;
 }
 
 export interface ArrivalCheckData {

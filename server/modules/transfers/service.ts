@@ -28,7 +28,8 @@ import { normalizeSerial } from '../../../shared/serial.js';
 import { haversineKm } from '../../../shared/routing/haversine.js';
 import { nextDeparture, nextRun } from '../../../shared/routing/next-run.js';
 import { rankShops, routingSettings, formatHours } from '../../../shared/routing/rank.js';
-import { formatLocal, zoneLabel } from '../../../shared/routing/zoned.js';
+import { zoneLabel } from '../../../shared/routing/zoned.js';
+import { formatDateTime } from '../../../shared/time/format.js';
 import {
   OPEN_TRANSFER_STATES,
   TRANSFER_STATE_LABELS,
@@ -39,6 +40,7 @@ import {
   type TransferView,
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
+import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -186,9 +188,15 @@ export async function getTransfer(actor: Actor, id: string) {
     requestedAt: t.requestedAt,
     approvedAt: t.approvedAt,
     packedAt: t.packedAt,
+    handedOverAt: t.handedOverAt,
     departedAt: t.departedAt,
     expectedArrivalAt: t.expectedArrivalAt,
     receivedAt: t.receivedAt,
+    /** On the road but the relay run has not left yet: handed over, waiting at the origin for the run. */
+    waitingForRun: t.state === 'in_transit' && !!t.relayRunId && !!t.departedAt && t.departedAt.getTime() > now.getTime(),
+    caseCount: t.caseCount,
+    contents: t.contents,
+    departureCondition: t.departureCondition,
     overdue: t.state === 'in_transit' && !!t.expectedArrivalAt && t.expectedArrivalAt.getTime() < now.getTime(),
     fromShop: shopBrief(t.fromShop),
     toShop: shopBrief(t.toShop),
@@ -217,7 +225,7 @@ export async function getTransfer(actor: Actor, id: string) {
     receivedBy: person(t.receivedBy),
     relayRun: t.relayRun ? runBrief(t.relayRun, t.fromShop, now) : null,
     runOptions: runs.map((r) => runBrief(r, t.fromShop, now)).sort((a, b) => (a.nextDepartureAt ?? '').localeCompare(b.nextDepartureAt ?? '')),
-    manifestAvailable: !!t.manifestKey,
+    manifestAvailable: !!t.manifestKey && MANIFEST_STATES.includes(t.state as TransferState),
     pendingStep: pending,
     nextStates: TRANSFER_TRANSITIONS[t.state as TransferState],
     history: history.map((h) => ({
@@ -246,12 +254,22 @@ function runBrief(r: RelayRun, from: Shop, now: Date) {
 const DAY_NAMES = ['Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat', 'Sun'];
 const formatWeekdaysShort = (days: number[]) => [...days].sort().map((d) => DAY_NAMES[d - 1]).join(', ');
 
+/** A manifest exists from the pack step on; a cancelled or rejected transfer offers none. */
+const MANIFEST_STATES: TransferState[] = ['packed', 'in_transit', 'received'];
+
+/** Reads the stored manifest; it never makes one (the worker does, at the pack step). */
 export async function manifestFile(actor: Actor, id: string) {
   const t = await loadReadable(actor, id);
-  // the worker writes it with each step; a transfer from before (or a step still queued) gets one now
-  const key = t.manifestKey ?? (await writeManifest(actor.networkId, t.id));
-  if (!key) throw notFound('That transfer');
-  const body = await getObjectBuffer(key);
+  if (t.state === 'cancelled' || t.state === 'rejected') {
+    throw new AppError(409, 'no_manifest', `This transfer was ${t.state}; it has no manifest.`);
+  }
+  if (!MANIFEST_STATES.includes(t.state as TransferState)) {
+    throw new AppError(409, 'manifest_not_ready', 'The manifest is made when the instrument is packed; it is not packed yet.');
+  }
+  if (!t.manifestKey) {
+    throw new AppError(409, 'manifest_being_made', 'The manifest is being made; try again in a moment.');
+  }
+  const body = await getObjectBuffer(t.manifestKey);
   return { body, filename: `transfer-job-${t.job.number}-manifest.pdf` };
 }
 
@@ -377,8 +395,25 @@ export async function recommendDestinations(actor: Actor, input: { jobId: string
     runs: runs.map((r) => ({ ...r.get({ plain: true }), transitHours: r.transitHours })),
     settings,
   });
-  return { job: jobBrief, skill: { id: skill.id, code: skill.code, name: skill.name }, skills: skillList, ...result };
+  const withoutReceiver = await shopsWithoutReceiver(actor.networkId, candidates.map((c) => c.shopId));
+  return { job: jobBrief, skill: { id: skill.id, code: skill.code, name: skill.name }, skills: skillList, ...result, withoutReceiver };
 }
+
+/**
+ * Receiving is the destination's front desk's or regional manager's work (the rules keep it so). Shops
+ * among `shopIds` where nobody holds either role: a request to them is warned about, since only the
+ * owner could then confirm receipt.
+ */
+async function shopsWithoutReceiver(networkId: string, shopIds: string[]) {
+  const out: string[] = [];
+  for (const shopId of shopIds) {
+    if (!(await peopleAt(networkId, [shopId], ['front_desk', 'regional_manager'])).length) out.push(shopId);
+  }
+  return out;
+}
+
+export const noReceiverWarning = (shopName: string) =>
+  `Nobody at ${shopName} may receive transfers (no front desk or regional manager there): only the owner could confirm receipt. Give someone there that role before the instrument arrives.`;
 
 // ---------------------------------------------------------------------------------------------
 // Asking for a step (API side)
@@ -417,7 +452,8 @@ export async function requestTransfer(actor: Actor, input: CreateTransferInput) 
     actorUserId: actor.id,
     at: transfer.requestedAt.toISOString(),
   });
-  return { id: transfer.id, state: transfer.state, queued: { step: 'requested' as const, jobId } };
+  const warnings = (await shopsWithoutReceiver(actor.networkId, [destination.id])).length ? [noReceiverWarning(destination.name)] : [];
+  return { id: transfer.id, state: transfer.state, queued: { step: 'requested' as const, jobId }, warnings };
 }
 
 async function loadForStep(actor: Actor, id: string) {
@@ -489,7 +525,11 @@ async function runForRoute(networkId: string, t: Transfer, relayRunId: string | 
   return nextRun(runs, now, from!.timeZone)?.runId ?? null;
 }
 
-export async function packTransfer(actor: Actor, id: string, input: { relayRunId?: string | null; liftingAcknowledged?: boolean }) {
+export async function packTransfer(
+  actor: Actor,
+  id: string,
+  input: { relayRunId?: string | null; liftingAcknowledged?: boolean; caseCount?: number; contents?: string | null; departureCondition?: string | null },
+) {
   const t = await loadForStep(actor, id);
   readableOr404(actor, t);
   // packing happens at the origin: the permission must come from there
@@ -501,7 +541,12 @@ export async function packTransfer(actor: Actor, id: string, input: { relayRunId
     });
   }
   const relayRunId = await runForRoute(actor.networkId, t, input.relayRunId, new Date());
-  return queueStep(actor, t, 'packed', { relayRunId });
+  return queueStep(actor, t, 'packed', {
+    relayRunId,
+    caseCount: input.caseCount ?? 1,
+    contents: input.contents ?? null,
+    departureCondition: input.departureCondition ?? null,
+  });
 }
 
 export async function handOverTransfer(actor: Actor, id: string, input: { relayRunId?: string | null }) {
@@ -534,6 +579,21 @@ export async function receiveTransfer(actor: Actor, id: string, input: { serial:
 export type StepOutcome =
   | { status: 'applied' | 'already-applied'; transferId: string; to: TransferState }
   | { status: 'skipped'; transferId: string; to: TransferState; reason: string };
+
+/**
+ * When a handed-over instrument leaves and when it is expected. On a relay run it waits for the run:
+ * it leaves at the run's next departure on or after the hand-over (weekdays and time read in the
+ * origin shop's zone) and is expected at that departure + the run's hours. An ad-hoc courier leaves at
+ * once, and takes the routing rule's hours. A run that no longer has a departure counts as ad hoc.
+ */
+export function departureFor(run: RelayRun | null, handedOverAt: Date, from: Shop, to: Shop, network: Network | null) {
+  const departure = run ? nextDeparture(run, handedOverAt, from.timeZone) : null;
+  if (run && departure) {
+    return { departedAt: departure, expectedArrivalAt: new Date(departure.getTime() + run.transitHours * HOUR_MS) };
+  }
+  const hours = adHocHours(from, to, routingSettings(network?.settings));
+  return { departedAt: handedOverAt, expectedArrivalAt: new Date(handedOverAt.getTime() + hours * HOUR_MS) };
+}
 
 /** How long an ad-hoc trip takes where no relay run exists (the routing rule). */
 function adHocHours(from: Shop, to: Shop, settings: ReturnType<typeof routingSettings>) {
@@ -585,11 +645,19 @@ function describeStep(t: Bundle, to: TransferState, data: TransferStepData, acto
         summary: `Packed for the relay run: ${route}`,
       };
     case 'in_transit': {
-      const eta = t.expectedArrivalAt ? ` Expected ${formatLocal(t.expectedArrivalAt, t.toShop.timeZone)} (${zoneLabel(t.toShop.timeZone)}).` : '';
+      const eta = t.expectedArrivalAt ? ` Expected at ${t.toShop.name} ${formatDateTime(t.expectedArrivalAt, t.toShop.timeZone)}.` : '';
+      if (t.relayRunId && t.departedAt) {
+        const leaves = formatDateTime(t.departedAt, t.fromShop.timeZone);
+        return {
+          title: `Handed over for the relay run to ${t.toShop.name}: ${family}`,
+          body: `${actorName} handed over ${job} (${what}) at ${t.fromShop.name} for the relay run to ${t.toShop.name}. The run leaves ${leaves}.${eta}`,
+          summary: `Handed over for the relay run of ${leaves}: ${route}.${eta}`,
+        };
+      }
       return {
         title: `On the road to ${t.toShop.name}: ${family}`,
-        body: `${job} (${what}) left ${t.fromShop.name} ${t.relayRunId ? 'on the relay run' : 'with a courier'}.${eta}`,
-        summary: `Left on the ${t.relayRunId ? 'relay run' : 'courier trip'}: ${route}.${eta}`,
+        body: `${job} (${what}) left ${t.fromShop.name} with a courier.${eta}`,
+        summary: `Left on the courier trip: ${route}.${eta}`,
       };
     }
     case 'received':
@@ -653,16 +721,21 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         await t.update({ state: 'cancelled', decisionNote: data.reason ?? null }, { transaction });
         break;
       case 'packed':
-        await t.update({ state: 'packed', packedByUserId: data.actorUserId, packedAt: at, relayRunId: data.relayRunId ?? null }, { transaction });
+        await t.update(
+          {
+            state: 'packed', packedByUserId: data.actorUserId, packedAt: at, relayRunId: data.relayRunId ?? null,
+            caseCount: data.caseCount ?? 1, contents: data.contents ?? null, departureCondition: data.departureCondition ?? null,
+          },
+          { transaction },
+        );
         break;
       case 'in_transit': {
         if (job.stage === 'released') return { status: 'skipped', transferId, to, reason: 'the job was released' };
         const relayRunId = data.relayRunId === undefined ? t.relayRunId : data.relayRunId;
         const run = relayRunId ? await RelayRun.findOne({ where: { networkId, id: relayRunId }, transaction }) : null;
         const network = await Network.findByPk(networkId, { transaction });
-        const hours = run ? run.transitHours : adHocHours(t.fromShop, t.toShop, routingSettings(network?.settings));
-        const expectedArrivalAt = new Date(at.getTime() + hours * HOUR_MS);
-        await t.update({ state: 'in_transit', departedAt: at, relayRunId: run?.id ?? null, expectedArrivalAt }, { transaction });
+        const { departedAt, expectedArrivalAt } = departureFor(run, at, t.fromShop, t.toShop, network);
+        await t.update({ state: 'in_transit', handedOverAt: at, departedAt, relayRunId: run?.id ?? null, expectedArrivalAt }, { transaction });
         const fromStage = job.stage;
         const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
         await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
@@ -676,8 +749,14 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
       }
       case 'received': {
         const resume: JobStage = job.stageBeforeHold ?? (job.stage === 'in_transit' ? 'approved' : job.stage);
+        // the estimate is taxed where the work is done: a shop with another rate changes its total
+        const estimateBefore = await currentEstimate(job, transaction, t.fromShop.taxRateBasisPoints);
         await t.update({ state: 'received', receivedByUserId: data.actorUserId, receivedAt: at }, { transaction });
         await job.update({ shopId: t.toShopId, stage: resume, stageBeforeHold: null, assignedUserId: null }, { transaction });
+        await recordEstimateChange(
+          job, data.actorUserId, `re-taxed at ${t.toShop.name}'s rate after the transfer`, estimateBefore, transaction,
+          await currentEstimate(job, transaction, t.toShop.taxRateBasisPoints),
+        );
         await instrument.update({ currentShopId: t.toShopId, status: 'in_shop' }, { transaction });
         events.push({
           networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.toShopId, userId: data.actorUserId,
@@ -704,10 +783,11 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     );
     for (const e of events) await HistoryEvent.create(e, { transaction });
 
-    // both shops hear of every step; the owners also hear of a request, since they may approve it
+    // both shops hear of every step; the owners also hear of a request (they may approve it) and of its
+    // cancellation (so a request they were weighing does not stay on their mind)
     const staff = await peopleAt(networkId, [t.fromShopId, t.toShopId], [...STAFF_ROLES], transaction);
-    const owners = to === 'requested' ? await peopleAt(networkId, null, ['owner'], transaction) : [];
-    const recipients = [...staff, ...owners].filter((id) => id !== data.actorUserId);
+    const owners = to === 'requested' || to === 'cancelled' ? await peopleAt(networkId, null, ['owner'], transaction) : [];
+    const recipients = [...new Set([...staff, ...owners])].filter((id) => id !== data.actorUserId);
     await notify(
       {
         networkId, kind: 'transfer_incoming', userIds: recipients, title: text.title, body: text.body,
@@ -727,7 +807,8 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
 
 /** The part after the commit; each piece may run again after a crash without harm. */
 async function finishStep(networkId: string, transferId: string, to: TransferState) {
-  await writeManifest(networkId, transferId);
+  // the manifest is made at the pack step, and made again when the hand-over fixes the run's date
+  if (to === 'packed' || to === 'in_transit') await writeManifest(networkId, transferId);
   await enqueueOutbox(transferId, to, `${stepKey(transferId, to)}:email:`);
   if (to === 'in_transit') {
     const t = await Transfer.findOne({ where: { networkId, id: transferId } });
@@ -759,8 +840,13 @@ export async function writeManifest(networkId: string, transferId: string) {
     approvedBy: t.approvedBy?.name ?? null,
     packedBy: t.packedBy?.name ?? null,
     packedAt: t.packedAt,
+    handedOverAt: t.handedOverAt,
     departedAt: t.departedAt,
     expectedArrivalAt: t.expectedArrivalAt,
+    nextRunDepartureAt: run && !t.departedAt ? nextDeparture(run, t.packedAt ?? new Date(), t.fromShop.timeZone) : null,
+    caseCount: t.caseCount ?? 1,
+    contents: t.contents,
+    departureCondition: t.departureCondition,
     heavyCase: isHeavyCase(t.instrument.family),
     generatedAt: new Date(),
   });
@@ -796,7 +882,7 @@ export async function checkTransferArrival(data: ArrivalCheckData, now = new Dat
     if (done) return 'already-noticed' as const;
     const managers = await peopleAt(networkId, [t.fromShopId, t.toShopId], ['regional_manager'], transaction);
     const recipients = managers.length ? managers : await peopleAt(networkId, null, ['owner'], transaction);
-    const eta = t.expectedArrivalAt ? `${formatLocal(t.expectedArrivalAt, t.toShop.timeZone)} (${zoneLabel(t.toShop.timeZone)})` : 'the expected time';
+    const eta = t.expectedArrivalAt ? formatDateTime(t.expectedArrivalAt, t.toShop.timeZone) : 'the expected time';
     const family = INSTRUMENT_FAMILY_LABELS[t.instrument.family];
     const summary = `Overdue: not received at ${t.toShop.name} by ${eta}.`;
     await HistoryEvent.create(

@@ -13,6 +13,7 @@ import { formatTimeZone } from '@/features/shops/format';
 import { useAppAbility } from '@/lib/ability';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { useCurrentShop, withShop } from '../current-shop';
+import { formatDateTime } from '@shared/time/format';
 import { NotFoundRoute } from './not-found';
 
 export function InstrumentRoute() {
@@ -40,7 +41,20 @@ export function InstrumentRoute() {
         title={`${inst.maker} ${inst.model ?? ''} · SN ${inst.serial}`}
         description={
           <>
-            {familyLabel(inst.family)}, now at {inst.currentShop?.name ?? '—'}.
+            {data.onRoad ? (
+              <>
+                {familyLabel(inst.family)}, {data.onRoad.onRelayRun ? 'on the relay run' : 'with a courier'} from {data.onRoad.fromShop?.name ?? '—'} to{' '}
+                {data.onRoad.toShop?.name ?? '—'}
+                {data.onRoad.expectedArrivalAt && data.onRoad.toShop
+                  ? `, expected ${formatDateTime(data.onRoad.expectedArrivalAt, data.onRoad.toShop.timeZone)}`
+                  : ''}
+                .
+              </>
+            ) : (
+              <>
+                {familyLabel(inst.family)}, now at {inst.currentShop?.name ?? '—'}.
+              </>
+            )}
             {data.openJob ? ` Job ${data.openJob.number} is ${stageLabel(data.openJob.stage).toLowerCase()} at ${data.openJob.shop?.name}.` : ' No open job.'}
           </>
         }

@@ -21,6 +21,8 @@ import { jobQueryOptions } from '@/features/jobs/queries';
 import { DocumentsPanel } from '@/features/files/components/documents-panel';
 import { PhotosPanel } from '@/features/files/components/photos-panel';
 import { formatCents } from '@shared/jobs/estimate';
+import { formatDateTime } from '@shared/time/format';
+import type { JobDetail } from '@shared/jobs/dto';
 import { isApiError } from '@/lib/api-client';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { useCurrentShop, withShop } from '../current-shop';
@@ -96,6 +98,7 @@ export function JobRoute() {
             <dd className="font-semibold">{formatCents(d.totals.totalCents)}</dd>
           </div>
         </dl>
+        {d.job.openTransfer ? <OpenTransferNote t={d.job.openTransfer} href={withShop(`/transfers/${d.job.openTransfer.id}`, currentShop?.id)} /> : null}
         {d.job.complaint ? <p className="max-w-prose text-ink-800">“{d.job.complaint}”</p> : null}
         <nav aria-label="This job elsewhere" className="flex flex-wrap gap-x-5 gap-y-2 text-sm">
           <Link className="font-semibold text-accent-800 hover:underline" to={withShop(`/registry/instruments/${instrument.id}`, currentShop?.id)}>
@@ -106,7 +109,7 @@ export function JobRoute() {
               Pad map
             </Link>
           ) : null}
-          {d.job.stage !== 'released' && ability.can('request', subject('Transfer', { fromShopId: d.shop.id })) ? (
+          {d.job.stage !== 'released' && !d.job.openTransfer && ability.can('request', subject('Transfer', { fromShopId: d.shop.id })) ? (
             <Link className="font-semibold text-accent-800 hover:underline" to={withShop(`/transfers/new?job=${d.job.id}`, currentShop?.id)}>
               Request transfer to another shop
             </Link>
@@ -147,5 +150,36 @@ export function JobRoute() {
         </Section>
       </div>
     </div>
+  );
+}
+
+const TRANSFER_STEP_WORDS: Record<NonNullable<JobDetail['job']['openTransfer']>['state'], string> = {
+  requested: 'waits for a manager’s approval',
+  approved: 'is approved; it waits to be packed',
+  packed: 'is packed; it waits for the hand-over',
+  in_transit: 'is on the road',
+};
+
+/** A transfer under way, said where the job is read, with a link to follow it. */
+function OpenTransferNote({ t, href }: { t: NonNullable<JobDetail['job']['openTransfer']>; href: string }) {
+  const waiting = t.state === 'in_transit' && t.onRelayRun && t.departedAt && Date.parse(t.departedAt) > Date.now();
+  return (
+    <p role="status" aria-label="Open transfer" className="max-w-prose rounded-lg border border-accent-200 bg-accent-50 px-3 py-2 text-accent-800">
+      {t.state === 'in_transit' && t.onRelayRun ? (
+        <>
+          On the relay run from {t.fromShop.name} to {t.toShop.name}
+          {t.departedAt ? `, ${waiting ? 'leaving' : 'left'} ${formatDateTime(t.departedAt, t.fromShop.timeZone)}` : ''}
+          {t.expectedArrivalAt ? `, expected ${formatDateTime(t.expectedArrivalAt, t.toShop.timeZone)}` : ''}.
+        </>
+      ) : (
+        <>
+          A transfer from {t.fromShop.name} to {t.toShop.name} {TRANSFER_STEP_WORDS[t.state]}
+          {t.expectedArrivalAt ? `, expected ${formatDateTime(t.expectedArrivalAt, t.toShop.timeZone)}` : ''}.
+        </>
+      )}{' '}
+      <Link to={href} className="font-semibold underline underline-offset-2">
+        Open the transfer
+      </Link>
+    </p>
   );
 }

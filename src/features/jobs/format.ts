@@ -1,5 +1,6 @@
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, type InstrumentFamily, type JobStage } from '@shared/domain';
 import { formatCalendarDate } from '@shared/jobs/promised-date';
+import { formatDateTime } from '@shared/time/format';
 
 export const stageLabel = (stage: JobStage) => JOB_STAGE_LABELS[stage] ?? stage;
 export const familyLabel = (family: InstrumentFamily | null | undefined) => (family ? INSTRUMENT_FAMILY_LABELS[family] : 'Any family');
@@ -12,16 +13,9 @@ export function formatMinutes(minutes: number): string {
   return m ? `${h} h ${m} min` : `${h} h`;
 }
 
-/** A moment shown on the shop's clock, e.g. "Mon 9 Mar, 14:05". */
+/** A moment shown on the shop's clock, e.g. "Mon 9 Mar 2026, 14:05 PDT" (shared/time/format.ts). */
 export function formatInShop(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    weekday: 'short',
-    day: 'numeric',
-    month: 'short',
-    hour: '2-digit',
-    minute: '2-digit',
-  }).format(new Date(iso));
+  return formatDateTime(iso, timeZone);
 }
 
 export const formatPromise = (date: string | null) => (date ? formatCalendarDate(date) : 'No promise yet');

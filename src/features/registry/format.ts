@@ -1,5 +1,6 @@
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, type InstrumentFamily, type JobStage } from '@shared/domain';
 import { INSTRUMENT_STATUS_LABELS, type InstrumentStatus } from '@shared/schemas/registry';
+import { formatCalendarDate, formatDateTime, viewerTimeZone } from '@shared/time/format';
 
 export const familyLabel = (family: InstrumentFamily) => INSTRUMENT_FAMILY_LABELS[family] ?? family;
 export const stageLabel = (stage: JobStage) => JOB_STAGE_LABELS[stage] ?? stage.replace(/_/g, ' ');
@@ -7,21 +8,15 @@ export const statusLabel = (status: InstrumentStatus) => INSTRUMENT_STATUS_LABEL
 
 /** A moment shown in the viewer's shop clock, with the zone's short name so nobody misreads another shop's time. */
 export function formatInZone(iso: string, timeZone: string | undefined): string {
-  const date = new Date(iso);
   try {
-    return new Intl.DateTimeFormat('en-US', {
-      timeZone, year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZoneName: 'short',
-    }).format(date);
+    return formatDateTime(iso, timeZone ?? viewerTimeZone());
   } catch {
-    return date.toISOString();
+    return formatDateTime(iso, 'UTC');
   }
 }
 
 /** A calendar date ('YYYY-MM-DD') as words, without shifting it through a time zone. */
-export function formatDay(day: string): string {
-  const [y, m, d] = day.split('-').map(Number);
-  return new Intl.DateTimeFormat('en-US', { timeZone: 'UTC', year: 'numeric', month: 'short', day: 'numeric' }).format(Date.UTC(y, m - 1, d));
-}
+export const formatDay = (day: string): string => formatCalendarDate(day);
 
 /** Today as 'YYYY-MM-DD' in a time zone: the earliest promise a shop can make. */
 export function todayIn(timeZone: string | undefined): string {

@@ -39,6 +39,15 @@ export interface InstrumentDetail {
   openJob: InstrumentJob | null;
   jobs: InstrumentJob[];
   otherMakers: InstrumentHit[];
+  /** In transit: the transfer it travels on (it is at neither shop meanwhile). */
+  onRoad?: {
+    transferId: string;
+    fromShop: ShopRef | null;
+    toShop: ShopRef | null;
+    departedAt: string | null;
+    expectedArrivalAt: string | null;
+    onRelayRun: boolean;
+  } | null;
 }
 
 export interface SerialCheck {

@@ -1,25 +1,13 @@
 import { INSTRUMENT_FAMILY_LABELS, type InstrumentFamily, type TransferState } from '@shared/domain';
+import { formatCalendarDate, formatDate, formatDateTime } from '@shared/time/format';
 
 /** Date and time in a shop's zone, with the zone said, because two shops of a transfer may differ. */
 export function formatInShop(iso: string | null | undefined, timeZone: string, withTime = true): string {
-  if (!iso) return '—';
-  return new Intl.DateTimeFormat('en-US', {
-    timeZone,
-    weekday: 'short',
-    month: 'short',
-    day: 'numeric',
-    ...(withTime ? { hour: 'numeric', minute: '2-digit', timeZoneName: 'short' } : {}),
-  }).format(new Date(iso));
+  return withTime ? formatDateTime(iso, timeZone) : formatDate(iso, timeZone);
 }
 
-/** 'YYYY-MM-DD' (a local calendar date) → "Tue, Jun 18". */
-export function formatLocalDate(date: string | null | undefined): string {
-  if (!date) return '—';
-  const [y, m, d] = date.split('-').map(Number);
-  return new Intl.DateTimeFormat('en-US', { timeZone: 'UTC', weekday: 'short', month: 'short', day: 'numeric' }).format(
-    new Date(Date.UTC(y, m - 1, d)),
-  );
-}
+/** 'YYYY-MM-DD' (a local calendar date) → "Tue 18 Jun 2026". */
+export const formatLocalDate = formatCalendarDate;
 
 export function describeInstrument(i: { family: InstrumentFamily; maker: string; model: string | null }): string {
   return `${INSTRUMENT_FAMILY_LABELS[i.family]} · ${[i.maker, i.model].filter(Boolean).join(' ')}`;

@@ -44,6 +44,12 @@ export interface TransferDetail extends Omit<TransferSummary, 'job' | 'instrumen
   decisionNote: string | null;
   approvedAt: string | null;
   packedAt: string | null;
+  /** When the origin handed it over; on a relay run `departedAt` is the run's departure, which may be later. */
+  handedOverAt: string | null;
+  waitingForRun: boolean;
+  caseCount: number | null;
+  contents: string | null;
+  departureCondition: string | null;
   job: { id: string; number: number; stage: JobStage; shopId: string; complaint: string; estimatedHours: number | null };
   instrument: {
     id: string;
@@ -95,6 +101,8 @@ export interface Recommendation {
   ranked: RankedShop[];
   recommendedShopId: string | null;
   settings: RoutingSettings;
+  /** Ranked shops where nobody may receive a transfer (no front desk or regional manager). */
+  withoutReceiver?: string[];
 }
 
 export interface StepAccepted {

@@ -38,11 +38,16 @@ async function freshTransfer(world: World, scope: Scope, state: TransferState, d
   return { transfer, instrument, job };
 }
 
+/** Per scope, a packed transfer with its manifest: the manifest is made at packing and only read by the API. */
+const packedWithManifest: Partial<Record<Scope, string>> = {};
+
 export async function extendWorld(world: World) {
-  // the manifest route answers only once a manifest exists
   for (const scope of SCOPES) {
     const networkId = scope === 'otherNetwork' ? world.networkB : world.networkA;
-    await writeManifest(networkId, world.ids[scope].transfer);
+    const { transfer } = await freshTransfer(world, scope, 'packed');
+    await transfer.update({ packedAt: new Date(), packedByUserId: transfer.requestedByUserId });
+    await writeManifest(networkId, transfer.id);
+    packedWithManifest[scope] = transfer.id;
   }
 }
 
@@ -95,7 +100,7 @@ export const cases: RouteCase[] = [
   {
     route: 'GET /api/transfers/:id/manifest',
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own'], technician: ['own'], auditor: ['own'] },
-    build: ({ world, scope }) => ({ path: `/api/transfers/${world.ids[scope].transfer}/manifest` }),
+    build: ({ scope }) => ({ path: `/api/transfers/${packedWithManifest[scope]}/manifest` }),
   },
   {
     route: 'POST /api/transfers/:id/approve',

@@ -186,7 +186,7 @@ describe('the job page API', () => {
       .set('Cookie', w.cookies.regional_manager)
       .send({ approvedByName: 'A. Parent', method: 'email', approvedAt: at })
       .expect(200);
-    expect(res.body.job.estimateApproval).toEqual({ at, byName: 'A. Parent', method: 'email' });
+    expect(res.body.job.estimateApproval).toEqual({ at, byName: 'A. Parent', method: 'email', totalCents: 0, version: 0 });
     expect(res.body.job.stage).toBe('on_bench'); // recording late does not move the job
     const { job: fresh } = await newJob('intake');
     await request(app)

@@ -191,7 +191,7 @@ describe('lists behind the figures', () => {
     expect(await screen.findByText(/Jobs at the stage “On bench”/)).toBeInTheDocument();
     const table = await screen.findByRole('table', { name: 'Jobs' });
     // taken in at 06:30 UTC on 30 Nov is still 29 Nov in Boise
-    expect(within(table).getByText('Nov 29, 2026')).toBeInTheDocument();
+    expect(within(table).getByText('Sun 29 Nov 2026')).toBeInTheDocument();
     expect(screen.getByRole('link', { name: /Download CSV/ })).toHaveAttribute('href', `/api/reports/jobs.csv?shop=${fen.id}&stage=on_bench`);
   });
 

@@ -70,11 +70,11 @@ describe('rankShops', () => {
       arrivalAt: '2024-06-11T18:00:00.000Z', dailyBenchHours: 8, benchDays: 5, benchStartDate: '2024-06-12', finishDate: '2024-06-18',
     });
     const texts = pdx.reasons.map((r) => r.text).join('\n');
-    expect(texts).toMatch(/Next relay run leaves Seattle Tue, Jun 11, 07:30 \(Los Angeles time\), 3\.5 h on the road; arrives Tue, Jun 11, 11:00/);
+    expect(texts).toMatch(/Next relay run leaves Seattle Tue 11 Jun 2024, 07:30 PDT, 3\.5 h on the road; arrives Tue 11 Jun 2024, 11:00 PDT/);
     expect(texts).toMatch(/20 h of low saxophones work already waiting, against 40 h a week \(8 h per opening day\)/);
     expect(texts).toMatch(/This job: 18 h/);
-    expect(texts).toMatch(/Open Tue–Sat \(Los Angeles time\): the bench can start Wed, Jun 12/);
-    expect(texts).toMatch(/5 bench days .* finished by Tue, Jun 18/);
+    expect(texts).toMatch(/Open Tue–Sat \(Los Angeles time\): the bench can start Wed 12 Jun 2024/);
+    expect(texts).toMatch(/5 bench days .* finished by Tue 18 Jun 2024/);
 
     // no run Seattle → Chicago: great-circle distance at 60 km/h plus 24 h handling
     const chi = ranked[1];

@@ -6,7 +6,7 @@ import { formatIsoDate } from '@shared/reports/format';
 import { SERIES } from '../colors';
 import { ChartFigure, FigureTable, figureLink, td, th, tdNum } from './chart-figure';
 
-const short = (iso: string) => formatIsoDate(iso).replace(/, \d{4}$/, '');
+const short = (iso: string) => formatIsoDate(iso).replace(/^\w{3} /, '').replace(/ \d{4}$/, ''); // "1 Mar"
 
 /** Jobs taken in per week over the last 52 weeks: the late-summer school-rental rush shows as a ridge. */
 export function WeeklyIntakeChart({ report, shop }: { report: DashboardReport; shop?: string }) {

@@ -2,10 +2,11 @@ import { useId, useMemo, useState } from 'react';
 import type { AttachmentDto } from '@shared/jobs/dto';
 import { Button } from '@/components/ui/button';
 import { controlClasses } from '@/components/ui/form-controls';
+import { formatDate, viewerTimeZone } from '@shared/time/format';
 import { cn } from '@/lib/cn';
 
 const describe = (a: AttachmentDto) =>
-  [a.jobNumber ? `Job ${a.jobNumber}` : null, a.caption, new Date(a.createdAt).toLocaleDateString()].filter(Boolean).join(' · ');
+  [a.jobNumber ? `Job ${a.jobNumber}` : null, a.caption, formatDate(a.createdAt, viewerTimeZone())].filter(Boolean).join(' · ');
 
 /**
  * Before and after of the same instrument: a slider over the two photos (the range input is the

@@ -6,6 +6,7 @@ import { controlClasses, Field, FormError } from '@/components/ui/form-controls'
 import { isApiError } from '@/lib/api-client';
 import { jobApi, useJobMutation } from '../queries';
 import { formatInShop } from '../format';
+import { formatCents } from '@shared/jobs/estimate';
 
 /** Who approved the estimate, when and how. At Assessed, recording it moves the job to Approved. */
 export function ApprovalForm({ detail }: { detail: JobDetail }) {
@@ -27,9 +28,18 @@ export function ApprovalForm({ detail }: { detail: JobDetail }) {
       {approval ? (
         <p className="rounded-lg bg-accent-50 px-3 py-2 text-accent-800">
           Approved {approval.byName ? <>by <strong>{approval.byName}</strong> </> : null}({ESTIMATE_APPROVAL_METHOD_LABELS[approval.method].toLowerCase()}),{' '}
-          {formatInShop(approval.at, detail.shop.timeZone)}.
+          {formatInShop(approval.at, detail.shop.timeZone)}
+          {approval.totalCents != null ? `: ${formatCents(approval.totalCents)} (v${approval.version ?? 0})` : ''}.
         </p>
-      ) : (
+      ) : null}
+      {approval && detail.job.needsReapproval && approval.totalCents != null ? (
+        <p role="alert" className="rounded-lg border border-danger-200 bg-danger-50 px-3 py-2 text-danger-700" data-reapproval>
+          Approved {formatCents(approval.totalCents)} (v{approval.version ?? 0}); now {formatCents(detail.totals.totalCents)} (v
+          {detail.job.estimateVersion}) — needs a new approval. Work does not move on to the bench, quality check, ready or release until
+          the front desk records it.
+        </p>
+      ) : null}
+      {approval ? null : (
         <p className="text-ink-600">The customer has not approved the estimate yet.</p>
       )}
       {detail.can.recordApproval ? (

@@ -7,6 +7,7 @@ import { stageLabel } from '../format';
 
 const BLOCKED_REASON: Record<string, string> = {
   estimate_approved: 'Waits for the customer’s approval (record it under Approval).',
+  estimate_reapproved: 'The estimate rose above what the customer approved: waits for a new approval (record it under Approval).',
 };
 
 /** Only the moves this person may make now, as large buttons; the server checks each one again. */

@@ -1,8 +1,9 @@
 import { Link } from 'react-router-dom';
-import { format, formatDistanceToNowStrict } from 'date-fns';
+import { formatDistanceToNowStrict } from 'date-fns';
 import { NOTIFICATION_KIND_LABELS } from '@shared/domain';
 import { Button } from '@/components/ui/button';
 import { cn } from '@/lib/cn';
+import { formatDateTime, viewerTimeZone } from '@shared/time/format';
 import type { Notice } from '../types';
 
 interface NoticeListProps {
@@ -36,7 +37,7 @@ export function NoticeList({ notices, hrefFor, onRead, pendingId }: NoticeListPr
                 {unread ? <span className="sr-only">Unread: </span> : null}
                 {NOTIFICATION_KIND_LABELS[n.kind].label}
                 <span aria-hidden="true"> · </span>
-                <time dateTime={n.createdAt} title={format(when, 'PPpp')} className="font-normal normal-case tracking-normal">
+                <time dateTime={n.createdAt} title={formatDateTime(when, viewerTimeZone())} className="font-normal normal-case tracking-normal">
                   {formatDistanceToNowStrict(when, { addSuffix: true })}
                 </time>
               </p>

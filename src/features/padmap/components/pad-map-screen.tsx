@@ -16,6 +16,7 @@ import type { PadMapWorkspace, ReservedLine } from '../types';
 import { InstallChecklist } from './install-checklist';
 import { PadMapGrid } from './pad-map-grid';
 import { PartsSummary } from './parts-summary';
+import { formatDate, viewerTimeZone } from '@shared/time/format';
 import '../print.css';
 
 interface PadMapScreenProps {
@@ -238,7 +239,7 @@ function PadMapEditor({ ws, rulesHref, jobHref }: { ws: PadMapWorkspace; rulesHr
 }
 
 function StartedFromNote({ ws, from, onFill, readOnly }: { ws: PadMapWorkspace; from: ReturnType<typeof usePadMapForm>['from']; onFill: () => void; readOnly: boolean }) {
-  const date = (iso: string) => new Date(iso).toLocaleDateString('en-US', { year: 'numeric', month: 'short', day: 'numeric' });
+  const date = (iso: string) => formatDate(iso, viewerTimeZone());
   if (from.kind === 'saved') {
     return <p className="text-sm text-ink-600">Saved by {from.map.createdBy} on {date(from.map.updatedAt)}.</p>;
   }

@@ -119,9 +119,10 @@ export function PartsSummary(props: PartsSummaryProps) {
         </label>
         {labor ? (
           <p className="text-sm text-ink-800" data-labor>
-            <span className="text-base font-semibold text-ink-950">{labor.hours} h</span> estimated: {labor.standardHours} h in the catalog,
-            {' '}{labor.selfLevelingPads} self-leveling {labor.selfLevelingPads === 1 ? 'pad' : 'pads'} at {Math.round(labor.factor * 100)} % of the time
-            {labor.gluedPads ? `, ${labor.gluedPads} glued at full time` : ''}.
+            <span className="text-base font-semibold text-ink-950">{labor.hours} h</span> estimated for {labor.keysRepadded}{' '}
+            {labor.keysRepadded === 1 ? 'key' : 'keys'} repadded: {labor.baseHours} h base + {labor.perKeyHours} h per key
+            {labor.selfLevelingPads ? ` (${labor.selfLevelingPads} self-leveling at ${Math.round(labor.factor * 100)} %)` : ''}; the catalog’s full
+            repad is {labor.standardHours} h.
           </p>
         ) : null}
       </div>

@@ -221,6 +221,12 @@ function RecommendationForm({
             </p>
           ) : null}
           {!recommended ? <p className="text-ink-600">No other shop can take this job.</p> : null}
+          {toShopId && data!.withoutReceiver?.includes(toShopId) ? (
+            <p role="alert" className="rounded-lg border border-danger-200 bg-danger-50 px-3 py-2 text-sm text-danger-700">
+              Nobody at {data!.ranked.find((r) => r.shopId === toShopId)?.shopName ?? 'that shop'} may receive transfers (no front desk or
+              regional manager there): only the owner could confirm receipt. Give someone there that role before the instrument arrives.
+            </p>
+          ) : null}
           {isHeavyCase(job.instrument.family) ? (
             <LiftingCaution />
           ) : null}

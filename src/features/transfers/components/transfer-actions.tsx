@@ -1,7 +1,7 @@
 import { useId, useState, type FormEvent, type ReactNode } from 'react';
 import { subject } from '@casl/ability';
 import type { TransferState } from '@shared/domain';
-import { reasonSchema, receiveTransferSchema } from '@shared/transfers';
+import { PACK_TEXT_MAX, reasonSchema, receiveTransferSchema } from '@shared/transfers';
 import { Button } from '@/components/ui/button';
 import { isApiError, type FieldErrors } from '@/lib/api-client';
 import { useAppAbility } from '@/lib/ability';
@@ -166,14 +166,46 @@ function PackPanel({ transfer }: { transfer: TransferDetail }) {
   const { run, pending, fieldErrors, setFieldErrors, message } = useAction(transfer);
   const [runId, setRunId] = useState(transfer.runOptions.length ? '' : 'none');
   const [acknowledged, setAcknowledged] = useState(false);
+  const [cases, setCases] = useState('1');
+  const [contents, setContents] = useState('');
+  const [condition, setCondition] = useState('');
   const id = useId();
   const submit = (e: FormEvent) => {
     e.preventDefault();
     if (transfer.heavyCase && !acknowledged) {
       return setFieldErrors({ liftingAcknowledged: 'Confirm you have read the lifting caution: two people or a cart.' });
     }
-    void run('pack', { ...runBody(runId), liftingAcknowledged: acknowledged });
+    const caseCount = /^\s*\d+\s*$/.test(cases) ? Number(cases) : NaN;
+    if (!Number.isInteger(caseCount)) return setFieldErrors({ caseCount: 'Enter a number of cases.' });
+    void run('pack', {
+      ...runBody(runId),
+      liftingAcknowledged: acknowledged,
+      caseCount,
+      ...(contents.trim() ? { contents } : {}),
+      ...(condition.trim() ? { departureCondition: condition } : {}),
+    });
   };
+  const textField = (key: 'contents' | 'departureCondition', label: string, hint: string, value: string, set: (v: string) => void) => (
+    <div className="flex flex-col gap-1">
+      <label htmlFor={`${id}-${key}`} className="text-sm font-medium text-ink-800">
+        {label}
+      </label>
+      <textarea
+        id={`${id}-${key}`}
+        rows={2}
+        value={value}
+        maxLength={PACK_TEXT_MAX}
+        onChange={(e) => set(e.target.value)}
+        aria-invalid={!!fieldErrors[key]}
+        aria-describedby={`${id}-${key}-hint${fieldErrors[key] ? ` ${id}-${key}-error` : ''}`}
+        className="rounded-lg border border-paper-300 bg-white px-3 py-2 text-ink-950"
+      />
+      <p id={`${id}-${key}-hint`} className="text-xs text-ink-600">
+        {hint} {value.length}/{PACK_TEXT_MAX}
+      </p>
+      <FieldError id={`${id}-${key}-error`} message={fieldErrors[key]} />
+    </div>
+  );
   return (
     <Panel title="Pack for the relay run">
       <form onSubmit={submit} noValidate className="flex flex-col gap-3">
@@ -194,6 +226,24 @@ function PackPanel({ transfer }: { transfer: TransferDetail }) {
           </>
         ) : null}
         <RunSelect transfer={transfer} value={runId} onChange={setRunId} error={fieldErrors.relayRunId} />
+        <div className="flex flex-col gap-1">
+          <label htmlFor={`${id}-cases`} className="text-sm font-medium text-ink-800">
+            Number of cases
+          </label>
+          <input
+            id={`${id}-cases`}
+            inputMode="numeric"
+            value={cases}
+            onChange={(e) => setCases(e.target.value)}
+            aria-invalid={!!fieldErrors.caseCount}
+            aria-describedby={fieldErrors.caseCount ? `${id}-cases-error` : undefined}
+            className="min-h-11 w-24 rounded-lg border border-paper-300 bg-white px-3 text-ink-950"
+          />
+          <FieldError id={`${id}-cases-error`} message={fieldErrors.caseCount} />
+        </div>
+        {textField('contents', 'Contents and accessories', 'What travels with it: neck, mouthpiece, strap, spare parts.', contents, setContents)}
+        {textField('departureCondition', 'Condition on departure', 'Dents, bent keys, leaks found before it leaves.', condition, setCondition)}
+        <p className="text-xs text-ink-600">These print on the manifest, with lines to sign at the hand-over and on receipt.</p>
         <div>
           <Button type="submit" disabled={pending}>
             Mark as packed
@@ -210,7 +260,10 @@ function HandOverPanel({ transfer }: { transfer: TransferDetail }) {
   const [runId, setRunId] = useState(transfer.relayRun?.id ?? (transfer.runOptions.length ? '' : 'none'));
   return (
     <Panel title="Hand over">
-      <p className="mb-3 text-sm text-ink-600">When the courier has it: the job goes on hold as in transit, and {transfer.toShop.name} is told when to expect it.</p>
+      <p className="mb-3 text-sm text-ink-600">
+        When the relay run or the courier has it: the job goes on hold as in transit. On a relay run it leaves at the run’s next departure, and{' '}
+        {transfer.toShop.name} is told the run’s date and when to expect it.
+      </p>
       <form
         onSubmit={(e) => {
           e.preventDefault();

@@ -74,12 +74,25 @@ export function TransferDetailView({ id, currentUserId, hrefFor }: TransferDetai
           {showCaution ? <LiftingCaution /> : null}
           <Card as="section" aria-label="Manifest">
             <CardTitle>Manifest</CardTitle>
-            <p className="mt-1 text-sm text-ink-600">
-              One page with the serial, the route and a QR code that opens this transfer. Print it and pack it with the instrument.
-            </p>
-            <a className={buttonClasses('secondary', 'md', 'mt-3')} href={`/api/transfers/${t.id}/manifest`} download>
-              Download manifest (PDF)
-            </a>
+            {t.manifestAvailable ? (
+              <>
+                <p className="mt-1 text-sm text-ink-600">
+                  One page with the serial, the route, the run date, what travels and a QR code that opens this transfer. Print it, sign
+                  it at the hand-over and pack it with the instrument.
+                </p>
+                <a className={buttonClasses('secondary', 'md', 'mt-3')} href={`/api/transfers/${t.id}/manifest`} download>
+                  Download manifest (PDF)
+                </a>
+              </>
+            ) : (
+              <p className="mt-1 text-sm text-ink-600">
+                {t.state === 'cancelled' || t.state === 'rejected'
+                  ? `This transfer was ${t.state}; it has no manifest.`
+                  : t.state === 'packed' || t.state === 'in_transit' || t.state === 'received'
+                    ? 'The manifest is being made; it appears here in a moment.'
+                    : 'The manifest is made when the instrument is packed.'}
+              </p>
+            )}
           </Card>
         </div>
       </div>
@@ -97,8 +110,17 @@ function Facts({ t, hrefFor }: { t: TransferDetail; hrefFor: (path: string) => s
   if (t.approvedBy) rows.push([t.state === 'rejected' ? 'Rejected by' : 'Approved', `${t.approvedAt ? `${formatInShop(t.approvedAt, t.fromShop.timeZone)} by ` : ''}${t.approvedBy.name}`]);
   if (t.decisionNote) rows.push([t.state === 'cancelled' ? 'Why cancelled' : 'Note', t.decisionNote]);
   if (t.packedBy) rows.push(['Packed', `${formatInShop(t.packedAt, t.fromShop.timeZone)} by ${t.packedBy.name}`]);
+  if (t.caseCount) rows.push(['Cases', String(t.caseCount)]);
+  if (t.contents) rows.push(['Contents', t.contents]);
+  if (t.departureCondition) rows.push(['Condition on departure', t.departureCondition]);
   rows.push(['Relay run', t.relayRun ? t.relayRun.label : t.state === 'in_transit' || t.state === 'received' ? 'Ad-hoc courier' : 'Chosen when packed']);
-  if (t.departedAt) rows.push(['Left', formatInShop(t.departedAt, t.fromShop.timeZone)]);
+  if (t.handedOverAt && t.relayRun) rows.push(['Handed over', formatInShop(t.handedOverAt, t.fromShop.timeZone)]);
+  if (t.departedAt && t.relayRun) {
+    // a hand-over waits for the run: the date people plan by is the run's, not the hand-over's
+    rows.push([t.waitingForRun ? 'Waiting for the run of' : 'Left on the run of', <strong key="run">{formatInShop(t.departedAt, t.fromShop.timeZone)}</strong>]);
+  } else if (t.departedAt) {
+    rows.push(['Left', formatInShop(t.departedAt, t.fromShop.timeZone)]);
+  }
   if (t.expectedArrivalAt) rows.push(['Expected', formatInShop(t.expectedArrivalAt, t.toShop.timeZone)]);
   if (t.receivedAt) rows.push(['Received', `${formatInShop(t.receivedAt, t.toShop.timeZone)}${t.receivedBy ? ` by ${t.receivedBy.name}` : ''}`]);
   return (

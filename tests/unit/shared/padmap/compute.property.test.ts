@@ -57,6 +57,8 @@ function toRules(r: RulesInts): PadRules {
     stemHeightsMm: r.stems.map(h),
     minProtrusionMm: h(r.protrusion),
     selfLevelingLaborFactor: 0.5,
+    repadBaseHours: 1.5,
+    repadHoursPerKey: 0.25,
   };
 }
 function toKey(k: { kind: KeyMeasurement['padKind']; floor: KeyMeasurement['floor']; cup: number; depth: number | null; rim: number | null }): KeyMeasurement {

@@ -164,14 +164,30 @@ describe('the whole instrument', () => {
     expect(result.counts).toEqual({ measured: 4, padsChosen: 4, errors: 0, warnings: 0 });
   });
 
-  it('scales the catalog hours by the self-leveling factor (common practice: 0.5)', () => {
+  // Base 1.5 h and 0.25 h per glued key are Benchrelay pricing defaults the owner sets; the 0.5 factor
+  // for a self-leveling key is common practice. Worked by hand below.
+  it('grows with the keys repadded: base + per key × keys, self-leveling keys at the factor', () => {
     const result = computePadMap({ entries, catalog, rules, repadHours: 6 });
-    // 3 self-leveling at half time and 1 glued at full time: 6 × (1 + 3 × 0.5) / 4 = 3.75
-    expect(result.labor).toEqual({ standardHours: 6, hours: 3.75, factor: 0.5, selfLevelingPads: 3, gluedPads: 1 });
+    // 3 self-leveling + 1 glued: 1.5 + 0.25 × (1 + 3 × 0.5) = 1.5 + 0.625 = 2.125 → 2.13 h (half up)
+    expect(result.labor).toEqual({
+      standardHours: 6, hours: 2.13, baseHours: 1.5, perKeyHours: 0.25, factor: 0.5, keysRepadded: 4, selfLevelingPads: 3, gluedPads: 1,
+    });
     const allSelfLeveling = entries.filter((e) => e.padKind === 'self_leveling').map((e) => computeKey(e, catalog, rules));
-    expect(laborEstimate(allSelfLeveling, 6, rules)?.hours).toBe(3);
-    expect(laborEstimate(allSelfLeveling, 6, { ...rules, selfLevelingLaborFactor: 0.8 })?.hours).toBe(4.8);
-    expect(laborEstimate([], 6, rules)?.hours).toBe(6);
+    // 3 self-leveling: 1.5 + 0.25 × 1.5 = 1.875 → 1.88 h; at factor 0.8: 1.5 + 0.25 × 2.4 = 2.1 h
+    expect(laborEstimate(allSelfLeveling, 6, rules)?.hours).toBe(1.88);
+    expect(laborEstimate(allSelfLeveling, 6, { ...rules, selfLevelingLaborFactor: 0.8 })?.hours).toBe(2.1);
+    // nothing repadded: no labor
+    expect(laborEstimate([], 6, rules)?.hours).toBe(0);
     expect(computePadMap({ entries, catalog, rules }).labor).toBeNull();
+  });
+
+  it('doubles the per-key part, not the whole, when twice the keys are repadded', () => {
+    const glued = (n: number) =>
+      Array.from({ length: n }, (_, i) => computeKey({ ...entries.find((e) => e.padKind === 'glued')!, keyId: `g${i}` }, catalog, rules));
+    // 10 glued keys: 1.5 + 0.25 × 10 = 4 h; 20 glued keys: 1.5 + 0.25 × 20 = 6.5 h
+    expect(laborEstimate(glued(10), 6, rules)?.hours).toBe(4);
+    expect(laborEstimate(glued(20), 6, rules)?.hours).toBe(6.5);
+    // an owner's own prices: base 2 h, 0.3 h per key, 20 keys → 2 + 6 = 8 h
+    expect(laborEstimate(glued(20), 6, { ...rules, repadBaseHours: 2, repadHoursPerKey: 0.3 })?.hours).toBe(8);
   });
 });

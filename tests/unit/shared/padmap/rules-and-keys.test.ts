@@ -5,7 +5,7 @@ import { hasPadKeys, keyName, PAD_KEYS_BY_FAMILY, padKeysFor } from '../../../..
 describe('pad rules', () => {
   it('defaults: 0.15 mm clearance, 0.5 mm overlap and protrusion, stems 0.5/1.0/1.5 mm, factor 0.5', () => {
     expect(DEFAULT_PAD_RULES).toEqual({
-      selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5,
+      selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, repadBaseHours: 1.5, repadHoursPerKey: 0.25,
     });
   });
 
