@@ -621,8 +621,8 @@ function JobForm({
   };
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <TextAreaField label="What the customer reports" required value={value.complaint} onChange={(e) => set('complaint', e.target.value)} error={shown.complaint} placeholder="e.g. Low notes gurgle below D; octave key sticks." />
-      <TextAreaField label="Condition at intake" value={value.conditionNotes} onChange={(e) => set('conditionNotes', e.target.value)} error={shown.conditionNotes} hint="Dents, scratches, case, accessories: what the customer would want on record." />
+      <TextAreaField label="What the customer reports" required value={value.complaint} onChange={(e) => set('complaint', e.target.value)} error={shown.complaint} maxLength={2000} placeholder="e.g. Low notes gurgle below D; octave key sticks." />
+      <TextAreaField label="Condition at intake" value={value.conditionNotes} onChange={(e) => set('conditionNotes', e.target.value)} error={shown.conditionNotes} maxLength={4000} hint="Dents, scratches, case, accessories: what the customer would want on record." />
       <TextField label="Promised date" type="date" min={minDate} value={value.promisedOn} onChange={(e) => set('promisedOn', e.target.value)} error={shown.promisedOn} className="sm:max-w-xs" />
       <div className="flex justify-end">
         <Button type="submit" size="lg" disabled={submitting}>
