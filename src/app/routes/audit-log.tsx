@@ -14,8 +14,19 @@ export function AuditLogRoute() {
   useDocumentTitle('Audit log');
   const [params, setParams] = useSearchParams();
   const values = Object.fromEntries(KEYS.map((k) => [k, params.get(k) ?? ''])) as unknown as AuditFilterValues;
+  // only the filter's own keys change: the address also carries the chosen shop
   const onChange = (next: AuditFilterValues) =>
-    setParams(Object.fromEntries(Object.entries(next).filter(([, v]) => v)), { replace: true });
+    setParams(
+      (current) => {
+        const out = new URLSearchParams(current);
+        for (const key of KEYS) {
+          if (next[key]) out.set(key, next[key]);
+          else out.delete(key);
+        }
+        return out;
+      },
+      { replace: true },
+    );
   const rangeOk = !values.fromDate || !values.toDate || values.toDate >= values.fromDate;
   return (
     <>

@@ -200,7 +200,7 @@ const GridRowView = memo(function GridRowView({ index, idBase, row, unit, result
         status === 'empty' && row.optional && 'text-ink-600',
       )}
     >
-      <th scope="row" className="sticky left-0 z-10 min-w-32 bg-inherit px-3 py-2 font-semibold text-ink-950">
+      <th scope="row" className="sticky left-0 z-10 min-w-28 bg-inherit px-2 py-2 font-semibold text-ink-950">
         {row.custom ? (
           <div className="flex items-center gap-1">
             <input
@@ -298,7 +298,7 @@ const GridRowView = memo(function GridRowView({ index, idBase, row, unit, result
           ))}
         </select>
       </td>
-      <td className="border-l border-paper-200 px-2 py-2 whitespace-nowrap tabular-nums" data-result="pad">
+      <td className="border-l border-paper-200 px-2 py-2 tabular-nums" data-result="pad">
         {result?.padDiameterMm != null ? (
           <>
             <span className="font-semibold text-ink-950">{formatMm(result.padDiameterMm, 1)}</span>
@@ -309,13 +309,13 @@ const GridRowView = memo(function GridRowView({ index, idBase, row, unit, result
           <span className="text-ink-600">—</span>
         )}
       </td>
-      <td className="px-2 py-2 whitespace-nowrap tabular-nums">
+      <td className="px-1.5 py-2 tabular-nums">
         {mm(result?.radialClearanceMm ?? null)}
         {result?.radialClearanceMm != null && result.radialClearanceMm < 0 ? <span className="block text-xs text-ink-600">press fit</span> : null}
       </td>
-      <td className="px-2 py-2 whitespace-nowrap tabular-nums">{mm(result?.rimOverlapMm ?? null)}</td>
-      <td className="px-2 py-2 whitespace-nowrap tabular-nums font-semibold">{result?.stemHeightMm != null ? formatMm(result.stemHeightMm, 1) : '—'}</td>
-      <td className="px-2 py-2 whitespace-nowrap tabular-nums">{mm(result?.protrusionMm ?? null)}</td>
+      <td className="px-1.5 py-2 tabular-nums">{mm(result?.rimOverlapMm ?? null)}</td>
+      <td className="px-1.5 py-2 tabular-nums font-semibold">{result?.stemHeightMm != null ? formatMm(result.stemHeightMm, 1) : '—'}</td>
+      <td className="px-1.5 py-2 tabular-nums">{mm(result?.protrusionMm ?? null)}</td>
     </tr>
   );
 });
