@@ -1,3 +1,4 @@
+import { useState } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { PageHeader } from '@/components/ui/page-header';
 import { AuditLogFilters, emptyAuditFilters, toAuditQuery, type AuditFilterValues } from '@/features/people/components/audit-log-filters';
@@ -13,9 +14,12 @@ export function AuditLogRoute() {
   const me = useSession();
   useDocumentTitle('Audit log');
   const [params, setParams] = useSearchParams();
-  const values = Object.fromEntries(KEYS.map((k) => [k, params.get(k) ?? ''])) as unknown as AuditFilterValues;
-  // only the filter's own keys change: the address also carries the chosen shop
-  const onChange = (next: AuditFilterValues) =>
+  // the form's state is the truth; the address follows it so a filtered log can be shared or reloaded
+  const [values, setValues] = useState<AuditFilterValues>(
+    () => Object.fromEntries(KEYS.map((k) => [k, params.get(k) ?? ''])) as unknown as AuditFilterValues,
+  );
+  const onChange = (next: AuditFilterValues) => {
+    setValues(next);
     setParams(
       (current) => {
         const out = new URLSearchParams(current);
@@ -27,6 +31,7 @@ export function AuditLogRoute() {
       },
       { replace: true },
     );
+  };
   const rangeOk = !values.fromDate || !values.toDate || values.toDate >= values.fromDate;
   return (
     <>
