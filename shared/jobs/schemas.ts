@@ -30,12 +30,12 @@ export const BOARD_PAGE_SIZES = [10, 25, 50, 100] as const;
 const calendarDate = z.iso.date({ message: 'Use a date like 2026-03-09.' });
 const hundredths = (what: string, max = MAX_HUNDREDTHS_VALUE) =>
   z
-    .number({ message: `${what} must be a number.` })
+    .number({ message: `Enter a number for ${what.toLowerCase()}.` })
     .min(0, `${what} cannot be negative.`)
     .max(max, `${what} is too large.`)
     .refine(hasAtMostTwoDecimals, `${what} takes at most two decimals.`);
 const cents = (what: string) =>
-  z.number({ message: `${what} must be a number.` }).int(`${what} is a whole number of cents.`).min(0, `${what} cannot be negative.`).max(100_000_000);
+  z.number({ message: `Enter a number for ${what.toLowerCase()}.` }).int(`${what} is a whole number of cents.`).min(0, `${what} cannot be negative.`).max(100_000_000);
 const boolParam = z
   .enum(['true', 'false', '1', '0'])
   .transform((v) => v === 'true' || v === '1')
@@ -117,7 +117,7 @@ export const approvalSchema = z.object({
 
 export const timeLogSchema = z.object({
   minutes: z
-    .number({ message: 'Minutes must be a number.' })
+    .number({ message: 'Enter a number of minutes.' })
     .int('Whole minutes, please.')
     .min(1, 'At least one minute.')
     .max(24 * 60, 'At most a day per entry.'),

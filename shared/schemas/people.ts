@@ -61,13 +61,34 @@ export const personUpdateSchema = z.object({
 });
 export type PersonUpdate = z.infer<typeof personUpdateSchema>;
 
-export const auditLogQuerySchema = z.object({
-  entity: z.string().trim().max(40).optional(),
-  entityId: z.string().trim().max(80).optional(),
-  /** Keyset cursor: the `cursor` the previous page returned. */
-  cursor: z.string().max(200).optional(),
-  limit: z.coerce.number().int().min(1).max(200).default(50),
-});
+/** The kinds of record the audit log tells about (its `entity` column). */
+export const AUDIT_ENTITIES = ['User', 'Membership', 'Invitation', 'Shop', 'Skill', 'RelayRun'] as const;
+export type AuditEntity = (typeof AUDIT_ENTITIES)[number];
+
+const instant = (what: string) =>
+  z.iso.datetime({ offset: true, error: `${what}: use a date and time such as 2026-12-05T00:00:00Z.` }).optional();
+
+export const auditLogQuerySchema = z
+  .object({
+    entity: z.enum(AUDIT_ENTITIES, { error: 'Choose a kind of record.' }).optional(),
+    /** One kind of change, e.g. `membership.updated`. */
+    action: z.string().trim().regex(/^[a-z_]+\.[a-z_]+$/, { error: 'Choose a kind of change.' }).max(60).optional(),
+    entityId: z.string().trim().max(80).optional(),
+    /** Changes made by this person or about them (their account, roles and skills). */
+    personId: z.uuid({ error: 'Choose a person.' }).optional(),
+    /** Changes about this shop: the shop itself, roles and invitations there, relay runs from or to it. */
+    shopId: z.uuid({ error: 'Choose a shop.' }).optional(),
+    /** From this instant (inclusive) to that one (exclusive); the client sends the viewer's midnights. */
+    from: instant('From'),
+    to: instant('To'),
+    /** Keyset cursor: the `cursor` the previous page returned. */
+    cursor: z.string().max(200).optional(),
+    limit: z.coerce.number().int().min(1).max(200).default(50),
+  })
+  .refine((q) => !q.from || !q.to || Date.parse(q.from) < Date.parse(q.to), {
+    error: 'The end of the range must come after its start.',
+    path: ['to'],
+  });
 export type AuditLogQuery = z.infer<typeof auditLogQuerySchema>;
 
 export const INVITATION_STATUSES = ['pending', 'expired', 'accepted', 'revoked'] as const;

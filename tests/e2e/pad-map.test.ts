@@ -5,7 +5,10 @@ import { closeServerResources } from '../helpers/close.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { Instrument, Job, PadMap, Part, Shop, StockReservation, User } from '../../server/lib/models.js';
+import { mkdirSync } from 'node:fs';
 import { uniq } from '../helpers/factories.js';
+
+const SHOTS = process.env.SHOTS_DIR ?? '/tmp/shots-ui';
 
 /**
  * A technician repads an alto saxophone: fills the pad map with the keyboard alone (Enter down a
@@ -107,5 +110,71 @@ describe('browser: pad map for an alto saxophone, by keyboard', () => {
     const held = await StockReservation.findOne({ where: { networkId, jobId, partId: sl30!.id, releasedAt: null } });
     expect(held!.quantity).toBe(2);
     await page.close();
+  }, 240_000);
+  it('on a phone: one card per key with its result beside its readings, no sideways scroll, the Save bar covers nothing; at 1280 px no sideways scroll', async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    const tech = await User.findOne({ where: { networkId, email: demoPeople[3].email } });
+    const instrument = await Instrument.create({
+      networkId, family: 'alto_saxophone', maker: 'Aldmoor', model: 'AS-300', serial: `AB-PHONE ${uniq()}`, ownerKind: 'rental_fleet', currentShopId: shopId,
+    });
+    const number = 800_000 + Math.floor(Math.random() * 99_000);
+    const job = await Job.create({
+      networkId, number, instrumentId: instrument.id, shopId, stage: 'on_bench', complaint: 'Repad', openedByUserId: tech!.id, assignedUserId: tech!.id,
+    });
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const page = await context.newPage();
+    await signInInBrowser(page, app.url, new RegExp(demoPeople[3].name));
+    page.setDefaultTimeout(60_000);
+    await page.goto(`${app.url}/jobs/${job.id}/pad-map?shop=${shopId}`);
+    await page.getByRole('heading', { name: `Pad map · Job ${number}` }).waitFor();
+
+    const card = (name: string) => page.locator('[data-key-card]', { has: page.getByLabel(`${name} cup diameter`, { exact: true }) });
+    await card('Low C').getByLabel('Low C cup diameter', { exact: true }).fill('30.5');
+    await card('Low C').getByLabel('Low C cup depth', { exact: true }).fill('4');
+    await card('Low C').getByLabel('Low C tone-hole rim diameter', { exact: true }).fill('30.2');
+    await card('Low B♭').getByLabel('Low B♭ cup diameter', { exact: true }).fill('45.8');
+    await card('Low B♭').getByLabel('Low B♭ cup depth', { exact: true }).fill('4.5');
+    await card('Low C').getByText(/does not cover the 30\.20 mm tone-hole rim/).waitFor();
+
+    // the page is no wider than the phone
+    const width = await page.evaluate(() => document.documentElement.scrollWidth);
+    expect(width).toBeLessThanOrEqual(390);
+    // the result of a key is in its own card, in view next to its readings
+    const result = card('Low B♭').locator('[data-result="pad"]');
+    expect(await result.innerText()).toContain('45.5 mm');
+    const box = await result.boundingBox();
+    expect(box!.x).toBeGreaterThanOrEqual(0);
+    expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+    // the parts list is on the screen too
+    const parts = page.getByRole('region', { name: 'Parts list' });
+    const partsBox = await parts.boundingBox();
+    expect(partsBox!.x + partsBox!.width).toBeLessThanOrEqual(390);
+
+    // the Save bar never lies over a warning, wherever the page is scrolled
+    const warning = card('Low C').getByText(/does not cover the 30\.20 mm tone-hole rim/);
+    await warning.scrollIntoViewIfNeeded();
+    for (const scroll of [0, 300, 600, 900]) {
+      await page.evaluate((y) => window.scrollTo(0, y), scroll);
+      const overlaps = await page.evaluate(() => {
+        const bar = document.querySelector('[data-save-bar]')!.getBoundingClientRect();
+        return [...document.querySelectorAll('[data-key-card] li')].some((li) => {
+          const r = li.getBoundingClientRect();
+          return r.bottom > bar.top && r.top < bar.bottom && r.right > bar.left && r.left < bar.right;
+        });
+      });
+      expect(overlaps).toBe(false);
+    }
+    await warning.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${SHOTS}/pad-map-390.png`, fullPage: true });
+
+    // a desktop: the table, and still nothing scrolls sideways
+    await page.setViewportSize({ width: 1280, height: 900 });
+    await page.locator('table').first().waitFor();
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1280);
+    const sheet = page.locator('[data-print="sheet"]');
+    const sheetSize = await sheet.evaluate((el) => ({ scrollWidth: el.scrollWidth, clientWidth: el.clientWidth }));
+    expect(sheetSize.scrollWidth, `the table needs ${sheetSize.scrollWidth} px of ${sheetSize.clientWidth}`).toBeLessThanOrEqual(sheetSize.clientWidth);
+    await page.screenshot({ path: `${SHOTS}/pad-map-1280.png`, fullPage: true });
+    await context.close();
   }, 240_000);
 });

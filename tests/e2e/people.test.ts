@@ -2,7 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { launchBrowser, startAppServer, signInInBrowser } from '../helpers/browser.js';
 import { closeServerResources } from '../helpers/close.js';
-import { waitForMail } from '../../server/lib/mail.js';
+import { mkdirSync } from 'node:fs';
+import { sendMail, waitForMail } from '../../server/lib/mail.js';
+
+const SHOTS = process.env.SHOTS_DIR ?? '/tmp/shots-ui';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { uniq } from '../helpers/factories.js';
@@ -111,4 +114,52 @@ describe('browser: per-shop roles from invitation to the screen', () => {
     await page.getByText('Role at Harborline Seattle changed to Front desk.').waitFor();
     await page.close();
   });
+  it('the owner opens the caught invitation and a text-only notice without a crash, then reads the audit log in words and filters it', async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    const subject = `Transfer on its way ${uniq()}`;
+    await sendMail({ to: 'harbour.desk@example.test', subject, text: 'A baritone saxophone is on the next relay run to your shop.' });
+    await waitForMail((m) => m.subject === subject, { timeoutMs: 10_000 });
+    for (const width of [1280, 390]) {
+      const context = await browser.newContext({ viewport: { width, height: 900 } });
+      const page = await context.newPage();
+      await signInInBrowser(page, app.url, new RegExp(demoPeople[0].name));
+      page.setDefaultTimeout(30_000);
+      const crashes: string[] = [];
+      page.on('pageerror', (e) => crashes.push(e.message));
+      await page.goto(`${app.url}/dev/mail`);
+      await page.getByRole('link', { name: new RegExp(subject) }).click();
+      const reader = page.getByRole('article', { name: subject });
+      await reader.getByText('A baritone saxophone is on the next relay run to your shop.').waitFor();
+      expect(await page.getByText('This screen stopped working').count()).toBe(0);
+      // the invitation the first test of this file sent
+      await page.goto(`${app.url}/dev/mail`); // on a phone the list and the message are separate views
+      await page.getByRole('link', { name: /^Invitation to / }).first().click();
+      const invite = page.getByRole('article');
+      await invite.getByRole('button', { name: 'HTML' }).click();
+      const frame = invite.locator('iframe');
+      const sandbox = (await frame.getAttribute('sandbox')) ?? '';
+      expect(sandbox).not.toMatch(/allow-same-origin|allow-scripts/);
+      expect(await frame.getAttribute('srcdoc')).toContain('<base target="_blank">');
+      await page.screenshot({ path: `${SHOTS}/dev-mail-${width}.png`, fullPage: true });
+      expect(crashes).toEqual([]);
+
+      await page.goto(`${app.url}/audit-log`);
+      await page.getByRole('heading', { name: 'Audit log' }).waitFor();
+      await page.getByText(/Times are in your time zone/).waitFor();
+      const filters = page.getByRole('search', { name: 'Filter the log' });
+      await filters.getByRole('combobox', { name: 'Person' }).selectOption({ label: demoPeople[2].name });
+      await filters.getByRole('combobox', { name: 'Kind of change' }).selectOption({ label: 'Changed a role' });
+      const changes = page.getByRole('list', { name: 'Changes' }).first();
+      await changes.waitFor();
+      const text = await page.locator('main').innerText();
+      expect(text).toMatch(/Role: (Front desk|Auditor) → (Auditor|Front desk)/);
+      expect(text).not.toMatch(/[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-/);
+      expect(text).not.toContain('"role"');
+      expect(await filters.getByRole('combobox', { name: 'Kind of change' }).inputValue()).toBe('action:membership.updated');
+      expect(await filters.getByRole('combobox', { name: 'Person' }).locator('option:checked').innerText()).toBe(demoPeople[2].name);
+      if (width === 390) expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+      await page.screenshot({ path: `${SHOTS}/audit-log-${width}.png`, fullPage: true });
+      await context.close();
+    }
+  }, 240_000);
 });

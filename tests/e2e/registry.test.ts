@@ -6,6 +6,9 @@ import { closeServerResources } from '../helpers/close.js';
 import { sequelize } from '../../server/lib/models.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
+import { mkdirSync } from 'node:fs';
+
+const SHOTS = process.env.SHOTS_DIR ?? '/tmp/shots-ui';
 
 /** The front desk at Seattle types a serial the way it is written on a school's sheet and reads its history. */
 describe('browser: the shared registry at the front desk', () => {
@@ -114,4 +117,73 @@ describe('browser: the shared registry at the front desk', () => {
     expect(await page.getByText('+1 206 555 0199').count()).toBe(1);
     await context.close();
   });
+  it('warns at step 1 when maker and serial are already registered, takes that one in, and shows a server refusal at its field', async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    // a Seattle instrument with no open job, and another instrument's asset tag
+    const [known] = await sequelize.query<{ id: string; maker: string; serial: string }>(
+      `select i.id, i.maker, i.serial from instruments i
+         join networks n on n.id = i.network_id and n.slug = 'demo'
+        where not exists (select 1 from jobs j where j.network_id = i.network_id and j.instrument_id = i.id and j.stage <> 'released')
+        order by i.serial limit 1`,
+      { type: QueryTypes.SELECT },
+    );
+    const [tagged] = await sequelize.query<{ asset_tag: string }>(
+      `select i.asset_tag from instruments i join networks n on n.id = i.network_id and n.slug = 'demo'
+        where i.asset_tag is not null and i.id <> :id order by i.serial limit 1`,
+      { type: QueryTypes.SELECT, replacements: { id: known.id } },
+    );
+    for (const width of [1280, 390]) {
+      const context = await browser.newContext({ viewport: { width, height: 900 } });
+      const page = await context.newPage();
+      await signInInBrowser(page, app.url, new RegExp(desk.name));
+      page.setDefaultTimeout(30_000);
+      await page.goto(`${app.url}/intake`);
+      await page.getByRole('heading', { name: 'Which instrument?' }).waitFor();
+      await page.getByRole('combobox', { name: /serial number/i }).fill(`${known.serial}-X`);
+      await page.getByRole('button', { name: /as a new instrument/ }).click();
+      // the serial of the one on record, typed with a quick Continue that must not outrun the lookup
+      await page.getByLabel(/^Serial number as engraved/).fill(known.serial.toLowerCase());
+      await page.getByLabel(/^Maker/).fill(known.maker.toUpperCase());
+      await page.getByLabel(/^Owned by/).selectOption('rental_fleet');
+      await page.getByRole('button', { name: 'Continue' }).click();
+      const warning = page.getByRole('alert').filter({ hasText: 'is already in the registry' });
+      await warning.waitFor();
+      expect(await page.getByRole('heading', { name: 'Which instrument?' }).count()).toBe(1);
+      await page.screenshot({ path: `${SHOTS}/intake-duplicate-${width}.png`, fullPage: true });
+      if (width === 390) {
+        expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+        await context.close();
+        continue;
+      }
+      await warning.getByRole('button', { name: 'Use that one' }).click();
+      await page.getByRole('heading', { name: 'Who brought it in?' }).waitFor();
+      await page.getByText(`SN ${known.serial} · at`, { exact: false }).waitFor();
+
+      // a new instrument whose asset tag is taken: the server refuses at the last step, the screen goes back to its field
+      await page.getByRole('button', { name: 'Change' }).first().click();
+      await page.getByRole('heading', { name: 'Which instrument?' }).waitFor();
+      const serial = `DUP-${Date.now() % 1_000_000}`;
+      await page.getByRole('combobox', { name: /serial number/i }).fill(serial);
+      await page.getByRole('button', { name: /as a new instrument/ }).click();
+      await page.getByLabel(/^Maker/).fill('Quellstone');
+      await page.getByLabel(/^Asset tag/).fill(tagged.asset_tag);
+      await page.getByLabel(/^Owned by/).selectOption('rental_fleet');
+      await page.getByRole('button', { name: 'Continue' }).click();
+      await page.getByRole('heading', { name: 'Who brought it in?' }).waitFor();
+      await page.getByRole('radio', { name: /No customer/ }).check();
+      await page.getByRole('button', { name: 'Continue' }).click();
+      await page.getByLabel(/^What the customer reports/).fill('Sticky G sharp key.');
+      await expect.poll(() => page.getByText('19 / 2000').count()).toBe(1); // the limit is in view before submit
+      await page.getByRole('button', { name: 'Open the job' }).click();
+      await page.getByRole('heading', { name: 'Which instrument?' }).waitFor();
+      const tag = page.getByLabel(/^Asset tag/);
+      expect(await tag.getAttribute('aria-invalid')).toBe('true');
+      await page.getByText('This asset tag is already on another instrument.').waitFor();
+      await page.screenshot({ path: `${SHOTS}/intake-refusal-${width}.png`, fullPage: true });
+      // a stale message goes as soon as the field changes
+      await tag.fill('');
+      expect(await page.getByText('This asset tag is already on another instrument.').count()).toBe(0);
+      await context.close();
+    }
+  }, 240_000);
 });

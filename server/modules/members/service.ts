@@ -196,21 +196,34 @@ function decodeCursor(cursor: string): { at: string; id: string } {
 async function auditLabeller(networkId: string, rows: Array<{ entity: string; entity_id: string | null; before: Record<string, unknown> | null; after: Record<string, unknown> | null }>) {
   const userIds = new Set<string>();
   const shopIds = new Set<string>();
-  const isId = (v: unknown): v is string => typeof v === 'string' && /^[0-9a-f-]{36}$/i.test(v);
+  const skillIds = new Set<string>();
+  const isId = (v: unknown): v is string => typeof v === 'string' && /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(v);
+  const list = (v: unknown): Array<Record<string, unknown>> =>
+    Array.isArray(v) ? v.filter((x): x is Record<string, unknown> => !!x && typeof x === 'object') : [];
   for (const r of rows) {
-    const snap = { ...(r.before ?? {}), ...(r.after ?? {}) };
     if (r.entity === 'User' && isId(r.entity_id)) userIds.add(r.entity_id);
     if (r.entity === 'Shop' && isId(r.entity_id)) shopIds.add(r.entity_id);
-    for (const key of ['userId']) if (isId(snap[key])) userIds.add(snap[key] as string);
-    for (const key of ['shopId', 'fromShopId', 'toShopId']) if (isId(snap[key])) shopIds.add(snap[key] as string);
+    for (const snap of [r.before ?? {}, r.after ?? {}]) {
+      for (const key of ['userId', 'invitedByUserId', 'acceptedByUserId']) if (isId(snap[key])) userIds.add(snap[key]);
+      for (const key of ['shopId', 'fromShopId', 'toShopId', 'homeShopId']) if (isId(snap[key])) shopIds.add(snap[key]);
+      for (const role of list(snap.roles)) if (isId(role.shopId)) shopIds.add(role.shopId);
+      for (const skill of list(snap.skills)) if (isId(skill.skillId)) skillIds.add(skill.skillId);
+    }
   }
-  const [users, shops] = await Promise.all([
+  const [users, shops, skills] = await Promise.all([
     userIds.size ? User.findAll({ where: { networkId, id: [...userIds] }, attributes: ['id', 'name'] }) : [],
     shopIds.size ? Shop.findAll({ where: { networkId, id: [...shopIds] }, attributes: ['id', 'name'] }) : [],
+    skillIds.size ? Skill.findAll({ where: { networkId, id: [...skillIds] }, attributes: ['id', 'name'] }) : [],
   ]);
   const userName = new Map(users.map((u) => [u.id, u.name]));
   const shopName = new Map(shops.map((x) => [x.id, x.name]));
-  return (entity: string, entityId: string | null, snap: Record<string, unknown> | null): string => {
+  /** Every id the page's before and after values mention, with today's name, so the log reads in words. */
+  const names: Record<string, string> = Object.fromEntries([
+    ...users.map((u) => [u.id, u.name] as const),
+    ...shops.map((x) => [x.id, x.name] as const),
+    ...skills.map((k) => [k.id, k.name] as const),
+  ]);
+  const label = (entity: string, entityId: string | null, snap: Record<string, unknown> | null): string => {
     const s = snap ?? {};
     const shop = (id: unknown) => (typeof id === 'string' ? (shopName.get(id) ?? 'a removed shop') : 'the whole network');
     switch (entity) {
@@ -230,10 +243,11 @@ async function auditLabeller(networkId: string, rows: Array<{ entity: string; en
         return entityId ?? entity;
     }
   };
+  return { label, names };
 }
 
 /** The owner reads the log newest first, a page at a time, optionally for one record. */
-export async function listAuditLog(actor: Actor, query: AuditLogQuery): Promise<{ entries: AuditEntry[]; nextCursor: string | null }> {
+export async function listAuditLog(actor: Actor, query: AuditLogQuery): Promise<{ entries: AuditEntry[]; nextCursor: string | null; names: Record<string, string> }> {
   if (!accessibleWhere(actor.ability, 'read', 'AuditLog')) throw forbidden('Only the network owner reads the audit log.');
   const conditions = ['a.network_id = :networkId'];
   const replacements: Record<string, unknown> = { networkId: actor.networkId, limit: query.limit + 1 };
@@ -244,6 +258,32 @@ export async function listAuditLog(actor: Actor, query: AuditLogQuery): Promise<
   if (query.entityId) {
     conditions.push('a.entity_id = :entityId');
     replacements.entityId = query.entityId;
+  }
+  if (query.action) {
+    conditions.push('a.action = :action');
+    replacements.action = query.action;
+  }
+  if (query.personId) {
+    // by the person, or about them: their account, their roles, their hours at a shop
+    conditions.push(`(a.actor_user_id = :personId::uuid
+      or (a.entity = 'User' and a.entity_id = :personId)
+      or a.before->>'userId' = :personId or a.after->>'userId' = :personId)`);
+    replacements.personId = query.personId;
+  }
+  if (query.shopId) {
+    const about = (side: 'before' | 'after') =>
+      `a.${side}->>'shopId' = :shopId or a.${side}->>'fromShopId' = :shopId or a.${side}->>'toShopId' = :shopId
+       or (jsonb_typeof(a.${side}->'roles') = 'array' and a.${side}->'roles' @> jsonb_build_array(jsonb_build_object('shopId', :shopId::text)))`;
+    conditions.push(`((a.entity = 'Shop' and a.entity_id = :shopId) or ${about('before')} or ${about('after')})`);
+    replacements.shopId = query.shopId;
+  }
+  if (query.from) {
+    conditions.push('a.at >= :from::timestamptz');
+    replacements.from = query.from;
+  }
+  if (query.to) {
+    conditions.push('a.at < :to::timestamptz');
+    replacements.to = query.to;
   }
   if (query.cursor) {
     const c = decodeCursor(query.cursor);
@@ -268,8 +308,9 @@ export async function listAuditLog(actor: Actor, query: AuditLogQuery): Promise<
   );
   const page = rows.slice(0, query.limit);
   const last = page[page.length - 1];
-  const label = await auditLabeller(actor.networkId, page);
+  const { label, names } = await auditLabeller(actor.networkId, page);
   return {
+    names,
     entries: page.map((r) => ({
       id: r.id,
       subject: label(r.entity, r.entity_id, r.before ?? r.after),

@@ -589,7 +589,7 @@ async function assertNotRegistered(actor: Actor, maker: string, serial: string, 
   });
   if (existing) {
     throw new AppError(409, 'already_registered', `${existing.maker} ${existing.serial} is already in the registry; pick it instead.`,
-      { serial: 'This serial is already registered under this maker.' }, { instrumentId: existing.id });
+      { 'instrument.new.serial': 'This serial is already registered under this maker.' }, { instrumentId: existing.id });
   }
 }
 

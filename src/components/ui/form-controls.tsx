@@ -1,5 +1,6 @@
 import { cloneElement, isValidElement, useId, type ReactElement, type ReactNode } from 'react';
 import { cn } from '@/lib/cn';
+import { CharacterCount, countOf } from './character-count';
 
 /** Text inputs, selects and textareas share one look; 44px tall for thumbs at the bench. */
 export const controlClasses =
@@ -21,11 +22,13 @@ export function Field({ label, error, hint, className, children }: FieldProps) {
   const id = useId();
   const hintId = hint ? `${id}-hint` : undefined;
   const errorId = error ? `${id}-error` : undefined;
+  const count = isValidElement(children) ? countOf(children.props as { maxLength?: unknown; value?: unknown }) : null;
+  const countId = count ? `${id}-count` : undefined;
   const control = isValidElement(children)
     ? cloneElement(children, {
         id,
         'aria-invalid': error ? true : undefined,
-        'aria-describedby': [hintId, errorId].filter(Boolean).join(' ') || undefined,
+        'aria-describedby': [hintId, countId, errorId].filter(Boolean).join(' ') || undefined,
       })
     : children;
   return (
@@ -34,6 +37,7 @@ export function Field({ label, error, hint, className, children }: FieldProps) {
         {label}
       </label>
       {control}
+      {count ? <CharacterCount id={countId!} length={count.length} max={count.max} /> : null}
       {hint ? (
         <p id={hintId} className="text-sm text-ink-600">
           {hint}

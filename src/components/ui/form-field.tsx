@@ -1,5 +1,6 @@
 import { cloneElement, isValidElement, useId, type InputHTMLAttributes, type ReactElement, type ReactNode, type SelectHTMLAttributes } from 'react';
 import { cn } from '@/lib/cn';
+import { CharacterCount, countOf } from './character-count';
 
 const control =
   'min-h-11 w-full rounded-lg border bg-white px-3 py-2 text-base text-ink-950 placeholder:text-ink-400 ' +
@@ -24,7 +25,9 @@ export function Field({ label, hint, error, className, children }: FieldProps) {
   const id = useId();
   const hintId = hint ? `${id}-hint` : undefined;
   const errorId = error ? `${id}-error` : undefined;
-  const describedBy = [hintId, errorId].filter(Boolean).join(' ') || undefined;
+  const count = isValidElement(children) ? countOf(children.props as { maxLength?: unknown; value?: unknown }) : null;
+  const countId = count ? `${id}-count` : undefined;
+  const describedBy = [hintId, countId, errorId].filter(Boolean).join(' ') || undefined;
   const child = isValidElement(children)
     ? cloneElement(children, { id, 'aria-invalid': error ? true : undefined, 'aria-describedby': describedBy })
     : children;
@@ -34,6 +37,7 @@ export function Field({ label, hint, error, className, children }: FieldProps) {
         {label}
       </label>
       {child}
+      {count ? <CharacterCount id={countId!} length={count.length} max={count.max} /> : null}
       {hint ? (
         <p id={hintId} className="text-sm text-ink-600">
           {hint}

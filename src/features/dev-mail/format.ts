@@ -20,3 +20,15 @@ export function splitLinks(text: string): TextPart[] {
   if (last < text.length) parts.push({ kind: 'text', value: text.slice(last) });
   return parts;
 }
+
+/**
+ * The message's HTML for a sandboxed frame, with every link opening in a new tab: a link followed
+ * inside the frame would load the app (or anything else) in the frame itself.
+ */
+export function framedMailDocument(html: string): string {
+  const base = '<base target="_blank">';
+  // drop any base the message brings, so its links cannot be pointed back into the frame
+  const cleaned = html.replace(/<base\b[^>]*>/gi, '');
+  if (/<head\b[^>]*>/i.test(cleaned)) return cleaned.replace(/<head\b[^>]*>/i, (head) => `${head}${base}`);
+  return `<!doctype html><html><head>${base}</head><body>${cleaned}</body></html>`;
+}

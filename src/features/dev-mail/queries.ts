@@ -7,8 +7,9 @@ export interface CaughtMessage {
   from: string;
   to: string[];
   subject: string;
-  text: string;
-  html: string;
+  /** The catcher stores `null` for a part the message does not have (most notices are text only). */
+  text: string | null;
+  html: string | null;
 }
 
 export const devMailKeys = {

@@ -31,3 +31,15 @@ export function parseMoneyToCents(text: string): number | null {
 }
 
 export const centsToInput = (cents: number | null | undefined) => (cents == null ? '' : (cents / 100).toFixed(2));
+
+/**
+ * Why a typed hours or quantity box is not an amount: letters first ("two" is not a number), then
+ * too many decimals. Undefined when the text is empty or fine.
+ */
+export function amountProblem(text: string, example = '1.25'): string | undefined {
+  const t = text.trim();
+  if (!t) return undefined;
+  if (!/^\d*[.,]?\d*$/.test(t) || !/\d/.test(t)) return `Enter a number, e.g. ${example}.`;
+  if (!/^\d+([.,]\d{1,2})?$|^[.,]\d{1,2}$/.test(t)) return `At most two decimals, e.g. ${example}.`;
+  return undefined;
+}

@@ -11,6 +11,12 @@ export interface PeopleFilters {
 export interface AuditFilters {
   entity?: string;
   entityId?: string;
+  action?: string;
+  personId?: string;
+  shopId?: string;
+  /** Instants (ISO), the viewer's midnights: from inclusive, to exclusive. */
+  from?: string;
+  to?: string;
 }
 
 export const peopleKeys = {
@@ -66,7 +72,13 @@ export function auditLogQueryOptions(filters: AuditFilters = {}) {
   return infiniteQueryOptions({
     queryKey: peopleKeys.audit(filters),
     queryFn: ({ signal, pageParam }) =>
-      api.get<AuditPage>(`/api/audit-log${query({ entity: filters.entity, entityId: filters.entityId, cursor: pageParam || undefined })}`, signal),
+      api.get<AuditPage>(
+        `/api/audit-log${query({
+          entity: filters.entity, entityId: filters.entityId, action: filters.action, personId: filters.personId,
+          shopId: filters.shopId, from: filters.from, to: filters.to, cursor: pageParam || undefined,
+        })}`,
+        signal,
+      ),
     initialPageParam: '',
     getNextPageParam: (last) => last.nextCursor ?? undefined,
   });

@@ -55,5 +55,7 @@ export interface AuditEntry {
 
 export interface AuditPage {
   entries: AuditEntry[];
+  /** Today's names of the people, shops and skills the page's before and after values mention, by id. */
+  names: Record<string, string>;
   nextCursor: string | null;
 }

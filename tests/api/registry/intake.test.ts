@@ -150,6 +150,8 @@ describe('POST /api/intake and openJob', () => {
       .send(body({ instrument: { new: { serial, maker: 'ALDMOOR', family: 'alto_saxophone', ownerKind: 'rental_fleet' } }, customer: null }))
       .expect(409);
     expect(dup.body.error).toMatchObject({ code: 'already_registered', instrumentId: first.body.instrument.id });
+    // named by its place in the request, so the screen shows it at the serial of the new instrument
+    expect(dup.body.error.fields).toEqual({ 'instrument.new.serial': 'This serial is already registered under this maker.' });
   });
 
   it('warns when the serial is registered under another maker, and still takes it in', async () => {

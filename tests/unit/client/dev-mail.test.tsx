@@ -43,7 +43,8 @@ const transferNotice = {
   to: ['harbour.desk@example.test', 'mill.desk@example.test'],
   subject: 'Incoming transfer: baritone saxophone',
   text: 'A baritone saxophone is on the next relay run to your shop.',
-  html: '',
+  // what the catcher stores for a message with no HTML part (docker-free-dev/mail-catcher.ts)
+  html: null,
 };
 
 afterEach(() => {
@@ -79,8 +80,12 @@ describe('development mail page', () => {
     fireEvent.click(within(reader).getByRole('button', { name: 'HTML' }));
     const frame = within(reader).getByTitle('HTML version of “You are invited to Tidewater Band Repair”');
     expect(frame.tagName).toBe('IFRAME');
-    expect(frame).toHaveAttribute('sandbox', '');
-    expect(frame.getAttribute('srcdoc')).toContain('Accept your invitation');
+    // no scripts and not this page's origin; links may only open a new tab, outside the sandbox
+    const sandbox = (frame.getAttribute('sandbox') ?? '').split(/\s+/).filter(Boolean).sort();
+    expect(sandbox).toEqual(['allow-popups', 'allow-popups-to-escape-sandbox']);
+    const srcdoc = frame.getAttribute('srcdoc') ?? '';
+    expect(srcdoc).toContain('Accept your invitation');
+    expect(srcdoc).toMatch(/<head><base target="_blank"><\/head>/);
   });
 
   it('offers no HTML view for a text-only message', async () => {
@@ -88,6 +93,21 @@ describe('development mail page', () => {
     const reader = await screen.findByRole('article', { name: 'Incoming transfer: baritone saxophone' });
     expect(within(reader).getByText('harbour.desk@example.test, mill.desk@example.test')).toBeInTheDocument();
     expect(within(reader).queryByRole('button', { name: 'HTML' })).not.toBeInTheDocument();
+    expect(within(reader).getByText('A baritone saxophone is on the next relay run to your shop.')).toBeInTheDocument();
+    expect(screen.queryByText('This screen stopped working')).not.toBeInTheDocument();
+  });
+
+  it('opens an HTML-only message in the frame, and a message the mail brought its own base into', async () => {
+    const htmlOnly = {
+      ...invitation, id: 'm-html', subject: 'Estimate ready', text: null,
+      html: '<html><head><base target="_self" href="http://localhost:3000/"></head><body><a href="/jobs/1">Open</a></body></html>',
+    };
+    renderDevMail('/dev/mail?message=m-html', { status: 200, body: { messages: [htmlOnly] } });
+    const reader = await screen.findByRole('article', { name: 'Estimate ready' });
+    const frame = within(reader).getByTitle('HTML version of “Estimate ready”');
+    const srcdoc = frame.getAttribute('srcdoc') ?? '';
+    expect(srcdoc).toContain('<head><base target="_blank">');
+    expect(srcdoc).not.toContain('target="_self"');
   });
 
   it('says when nothing has been caught yet', async () => {

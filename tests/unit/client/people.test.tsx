@@ -145,3 +145,62 @@ describe('an invitation link', () => {
     expect(screen.getByRole('alert')).toHaveTextContent('This invitation has expired');
   });
 });
+
+describe('the audit log screen', () => {
+  const personId = '0b7e1f4a-2c3d-4e5f-8a9b-0c1d2e3f4a5b';
+  const membershipUpdate = {
+    id: 'e1', subject: `Ines Barros at ${north.name}`, at: '2026-03-09T17:05:00.000Z',
+    actor: { id: 'user-1', name: 'Wren Okafor', email: 'wren@example.test' },
+    action: 'membership.updated', entity: 'Membership', entityId: 'm1',
+    before: { id: 'm1', userId: personId, shopId: north.id, role: 'technician' },
+    after: { id: 'm1', userId: personId, shopId: north.id, role: 'front_desk' },
+  };
+  const invitation = {
+    id: 'e2', subject: 'juno@example.test', at: '2026-03-08T09:00:00.000Z',
+    actor: { id: 'user-1', name: 'Wren Okafor', email: 'wren@example.test' },
+    action: 'invitation.created', entity: 'Invitation', entityId: 'i1', before: null,
+    after: { id: 'i1', email: 'juno@example.test', roles: [{ shopId: north.id, role: 'technician' }, { shopId: south.id, role: 'front_desk' }] },
+  };
+  const names = { [personId]: 'Ines Barros', [north.id]: north.name, [south.id]: south.name };
+
+  it('reads in words: names for ids, roles as labels, and says which time zone its times are in', async () => {
+    renderApp('/audit-log', {
+      'GET /api/me': me([{ shopId: null, role: 'owner' }]),
+      'GET /api/people': { status: 200, body: { people: [] } },
+      'GET /api/audit-log': { status: 200, body: { entries: [membershipUpdate, invitation], names, nextCursor: null } },
+    });
+    const list = await screen.findAllByRole('list', { name: 'Changes' }, { timeout: 8000 });
+    const text = list.map((l) => l.textContent).join('\n');
+    expect(text).toContain('Role: Technician → Front desk');
+    expect(text).toContain(`Roles: Technician at ${north.name}; Front desk at ${south.name}`);
+    expect(text).not.toMatch(/[0-9a-f]{8}-[0-9a-f]{4}-/);
+    expect(text).not.toContain('{');
+    expect(screen.getByText(/Times are in your time zone \(/)).toBeInTheDocument();
+  });
+
+  it('sends the filters to the server: person, shop, kind and the viewer’s days', async () => {
+    const { sent } = renderApp('/audit-log', {
+      'GET /api/me': me([{ shopId: null, role: 'owner' }]),
+      'GET /api/people': { status: 200, body: { people: [{ id: personId, name: 'Ines Barros', email: 'ines@example.test', active: true, deactivatedAt: null, lastSignInAt: null, createdAt: '2026-01-01T00:00:00Z', memberships: [] }] } },
+      'GET /api/audit-log': { status: 200, body: { entries: [membershipUpdate], names, nextCursor: null } },
+    });
+    await screen.findAllByRole('list', { name: 'Changes' }, { timeout: 8000 });
+    await screen.findByRole('option', { name: 'Ines Barros' }, { timeout: 8000 });
+    const form = within(screen.getByRole('search', { name: 'Filter the log' }));
+    fireEvent.change(form.getByRole('combobox', { name: 'Person' }), { target: { value: personId } });
+    fireEvent.change(form.getByRole('combobox', { name: 'Shop' }), { target: { value: north.id } });
+    fireEvent.change(form.getByRole('combobox', { name: 'Kind of change' }), { target: { value: 'action:membership.updated' } });
+    fireEvent.change(form.getByLabelText('From (day)'), { target: { value: '2026-03-09' } });
+    fireEvent.change(form.getByLabelText('To (day, included)'), { target: { value: '2026-03-09' } });
+    await waitFor(() => {
+      const last = sent.filter((r) => r.path === '/api/audit-log').at(-1)!;
+      const q = new URLSearchParams(last.search);
+      expect(q.get('personId')).toBe(personId);
+      expect(q.get('shopId')).toBe(north.id);
+      expect(q.get('action')).toBe('membership.updated');
+      // one whole local day: from that midnight to the next one
+      expect(Date.parse(q.get('to')!) - Date.parse(q.get('from')!)).toBe(new Date(2026, 2, 10).getTime() - new Date(2026, 2, 9).getTime());
+      expect(new Date(q.get('from')!).getHours()).toBe(0);
+    });
+  });
+});

@@ -1,14 +1,16 @@
 import { useState } from 'react';
 import { Card } from '@/components/ui/card';
 import { cn } from '@/lib/cn';
-import { formatReceivedAt, splitLinks } from '../format';
+import { formatReceivedAt, framedMailDocument, splitLinks } from '../format';
 import type { CaughtMessage } from '../queries';
 
 type View = 'text' | 'html';
 
 export function MailReader({ message }: { message: CaughtMessage }) {
-  const hasHtml = message.html.trim().length > 0;
-  const hasText = message.text.trim().length > 0;
+  const html = message.html ?? '';
+  const text = message.text ?? '';
+  const hasHtml = html.trim().length > 0;
+  const hasText = text.trim().length > 0;
   const [view, setView] = useState<View>(hasText || !hasHtml ? 'text' : 'html');
 
   return (
@@ -53,9 +55,9 @@ export function MailReader({ message }: { message: CaughtMessage }) {
       {view === 'text' ? (
         <pre className="font-sans text-base leading-relaxed whitespace-pre-wrap break-words text-ink-950">
           {hasText
-            ? splitLinks(message.text).map((part, index) =>
+            ? splitLinks(text).map((part, index) =>
                 part.kind === 'link' ? (
-                  <a key={index} href={part.value} className="font-medium text-accent-700 underline underline-offset-2">
+                  <a key={index} href={part.value} target="_blank" rel="noreferrer" className="font-medium text-accent-700 underline underline-offset-2">
                     {part.value}
                   </a>
                 ) : (
@@ -65,11 +67,12 @@ export function MailReader({ message }: { message: CaughtMessage }) {
             : '(this message has no plain-text part)'}
         </pre>
       ) : (
-        // An empty sandbox: the message's HTML cannot run scripts, submit forms or reach this page.
+        // A sandbox without scripts, forms or this page's origin; links may only open a new tab
+        // (its own browsing context, outside the sandbox), never load anything inside the frame.
         <iframe
           title={`HTML version of “${message.subject || 'no subject'}”`}
-          sandbox=""
-          srcDoc={message.html}
+          sandbox="allow-popups allow-popups-to-escape-sandbox"
+          srcDoc={framedMailDocument(html)}
           className="h-[60vh] w-full rounded-lg border border-paper-200 bg-white"
         />
       )}

@@ -14,7 +14,7 @@ import { Caution, controlClasses, Field, FormError } from '@/components/ui/form-
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { catalogQueryOptions, jobApi, useJobMutation } from '../queries';
-import { centsToInput, parseMoneyToCents } from '../format';
+import { centsToInput, parseMoneyToCents, amountProblem } from '../format';
 
 const parseAmount = (text: string): number | null => {
   if (!/^\s*\d+([.,]\d+)?\s*$/.test(text)) return null;
@@ -114,7 +114,7 @@ export function EstimateEditor({ detail }: { detail: JobDetail }) {
                     </p>
                   )}
                 </div>
-                {invalid ? <p className="text-sm text-danger-700">A number above zero with at most two decimals.</p> : null}
+                {invalid ? <p className="text-sm text-danger-700">{amountProblem(draft ?? '') ?? 'Enter a number above zero.'}</p> : null}
                 {item.cautions.map((c) => (
                   <Caution key={c}>{c}</Caution>
                 ))}
@@ -196,7 +196,7 @@ function AddLaborForm({ detail }: { detail: JobDetail }) {
       </Field>
       <Field
         label="Hours"
-        error={errors.hours ?? (hours.trim() && parseAmount(hours) === null ? 'At most two decimals, e.g. 1.25.' : undefined)}
+        error={errors.hours ?? (parseAmount(hours) === null ? amountProblem(hours) : undefined)}
         hint={`At ${formatCents(detail.shop.laborRateCents)} per hour${chosen ? `; standard ${chosen.standardHours} h` : ''}.`}
       >
         <input inputMode="decimal" className={controlClasses} value={hours} placeholder={chosen ? String(chosen.standardHours) : ''} onChange={(e) => setHours(e.target.value)} />
@@ -244,10 +244,10 @@ function AddPartForm({ detail }: { detail: JobDetail }) {
         <input className={controlClasses} value={description} onChange={(e) => setDescription(e.target.value)} required maxLength={300} />
       </Field>
       <div className="grid grid-cols-2 gap-3">
-        <Field label="Quantity" error={errors.quantity ?? (quantity && q === null ? 'At most two decimals.' : undefined)}>
+        <Field label="Quantity" error={errors.quantity ?? (q === null ? amountProblem(quantity, '2') : undefined)}>
           <input inputMode="decimal" className={controlClasses} value={quantity} onChange={(e) => setQuantity(e.target.value)} required />
         </Field>
-        <Field label="Unit price ($)" error={errors.unitPriceCents ?? (price && cents === null ? 'An amount like 12.50.' : undefined)}>
+        <Field label="Unit price ($)" error={errors.unitPriceCents ?? (price && cents === null ? (/[^\d\s$.,]/.test(price) ? 'Enter a number, e.g. 12.50.' : 'An amount like 12.50.') : undefined)}>
           <input inputMode="decimal" className={controlClasses} value={price} onChange={(e) => setPrice(e.target.value)} placeholder={centsToInput(0)} required />
         </Field>
       </div>

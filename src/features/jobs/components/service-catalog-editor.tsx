@@ -11,7 +11,7 @@ import { Spinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { catalogQueryOptions, jobApi, jobKeys } from '../queries';
-import { familyLabel } from '../format';
+import { familyLabel, amountProblem } from '../format';
 
 interface Draft {
   name: string;
@@ -104,7 +104,7 @@ function CatalogRow({ item, skills }: { item?: CatalogItemDto; skills: PersonRef
   const changed = JSON.stringify(draft) !== JSON.stringify(toDraft(item));
   const label = item ? item.name : 'New service';
   const set = (patch: Partial<Draft>) => setDraft((d) => ({ ...d, ...patch }));
-  const hoursError = errors.standardHours ?? (draft.standardHours && !hoursOk(draft.standardHours) ? 'Hours with at most two decimals.' : undefined);
+  const hoursError = errors.standardHours ?? (draft.standardHours && !hoursOk(draft.standardHours) ? (amountProblem(String(draft.standardHours)) ?? 'Hours with at most two decimals.') : undefined);
 
   const submit = (event: FormEvent) => {
     event.preventDefault();

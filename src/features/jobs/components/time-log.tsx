@@ -14,10 +14,17 @@ export function TimeLog({ detail }: { detail: JobDetail }) {
   const [note, setNote] = useState('');
   const add = useJobMutation(jobId, (body: object) => jobApi.logTime(jobId, body));
   const remove = useJobMutation(jobId, (logId: string) => jobApi.removeTime(jobId, logId));
-  const errors = isApiError(add.error) ? add.error.fieldErrors : {};
+  const [typed, setTyped] = useState<string | null>(null);
+  const errors: Record<string, string | undefined> = { ...(isApiError(add.error) ? add.error.fieldErrors : {}), ...(typed ? { minutes: typed } : {}) };
 
   const submit = (event: FormEvent) => {
     event.preventDefault();
+    // the browser's own "match the requested format" says nothing useful: check here, in words
+    if (!/^\s*\d+\s*$/.test(minutes)) {
+      setTyped(/^\s*\d*[.,]\d*\s*$/.test(minutes) && /\d/.test(minutes) ? 'Whole minutes, please.' : 'Enter a number of minutes.');
+      return;
+    }
+    setTyped(null);
     add.mutate(
       { minutes: Number(minutes), ...(workedOn ? { workedOn } : {}), ...(note.trim() ? { note } : {}) },
       {
@@ -61,9 +68,9 @@ export function TimeLog({ detail }: { detail: JobDetail }) {
         </ul>
       ) : null}
       {detail.can.logTime ? (
-        <form onSubmit={submit} className="grid gap-3 sm:grid-cols-[8rem_10rem_1fr_auto] sm:items-end" aria-label="Log time">
+        <form onSubmit={submit} noValidate className="grid gap-3 sm:grid-cols-[8rem_10rem_1fr_auto] sm:items-end" aria-label="Log time">
           <Field label="Minutes" error={errors.minutes}>
-            <input inputMode="numeric" className={controlClasses} value={minutes} onChange={(e) => setMinutes(e.target.value)} required pattern="\d{1,4}" />
+            <input inputMode="numeric" className={controlClasses} value={minutes} onChange={(e) => { setMinutes(e.target.value); setTyped(null); }} required />
           </Field>
           <Field label="Day" error={errors.workedOn}>
             <input type="date" className={controlClasses} value={workedOn} onChange={(e) => setWorkedOn(e.target.value)} />

@@ -197,7 +197,7 @@ function PadMapEditor({ ws, rulesHref, jobHref }: { ws: PadMapWorkspace; rulesHr
       )}
 
       {!readOnly ? (
-        <div className="sticky bottom-0 z-20 -mx-4 flex flex-wrap items-center gap-3 border-t border-paper-200 bg-white/95 px-4 py-3 sm:mx-0 sm:rounded-2xl sm:border" data-print="hide">
+        <div className="flex flex-wrap items-center gap-3 rounded-2xl border border-paper-200 bg-white px-4 py-3 xl:sticky xl:bottom-0 xl:z-20 xl:bg-white/95" data-print="hide" data-save-bar>
           <Button type="submit" disabled={save.isPending}>{save.isPending ? 'Saving…' : 'Save pad map'}</Button>
           <p className="text-sm text-ink-800" role="status" aria-live="polite">
             {save.isPending

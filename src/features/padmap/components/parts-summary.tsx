@@ -46,7 +46,7 @@ export function PartsSummary(props: PartsSummaryProps) {
         <p className="text-ink-600">No pads yet: measure a cup to see its pad here.</p>
       ) : (
         <div className="overflow-x-auto">
-          <table className="w-full min-w-[40rem] text-left text-sm">
+          <table className="w-full text-left text-sm">
             <caption className="sr-only">Pads by kind, size and thickness</caption>
             <thead className="border-b border-paper-200 text-ink-600">
               <tr>

@@ -1,4 +1,5 @@
 import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
+import { CharacterCount, countOf } from '@/components/ui/character-count';
 import { cn } from '@/lib/cn';
 
 const control =
@@ -11,14 +12,17 @@ interface FieldShellProps {
   required?: boolean;
   children: (ids: { id: string; describedBy: string | undefined; invalid: boolean }) => ReactNode;
   className?: string;
+  /** Length and limit of a long text, shown as a counter. */
+  count?: { length: number; max: number } | null;
 }
 
 /** Label, control, hint and error wired together, so a screen reader reads the error with the field. */
-function FieldShell({ label, error, hint, required, children, className }: FieldShellProps) {
+function FieldShell({ label, error, hint, required, children, className, count }: FieldShellProps) {
   const id = useId();
   const hintId = hint ? `${id}-hint` : undefined;
   const errorId = error ? `${id}-error` : undefined;
-  const describedBy = [hintId, errorId].filter(Boolean).join(' ') || undefined;
+  const countId = count ? `${id}-count` : undefined;
+  const describedBy = [hintId, countId, errorId].filter(Boolean).join(' ') || undefined;
   return (
     <div className={cn('flex flex-col gap-1', className)}>
       <label htmlFor={id} className="text-sm font-semibold text-ink-950">
@@ -26,6 +30,7 @@ function FieldShell({ label, error, hint, required, children, className }: Field
         {required ? <span className="text-danger-700"> *</span> : <span className="font-normal text-ink-600"> (optional)</span>}
       </label>
       {children({ id, describedBy, invalid: !!error })}
+      {count ? <CharacterCount id={countId!} length={count.length} max={count.max} /> : null}
       {hint ? (
         <p id={hintId} className="text-sm text-ink-600">
           {hint}
@@ -44,7 +49,7 @@ type Common = { label: string; error?: string; hint?: ReactNode; className?: str
 
 export function TextField({ label, error, hint, className, required, ...props }: Common & InputHTMLAttributes<HTMLInputElement>) {
   return (
-    <FieldShell label={label} error={error} hint={hint} required={required} className={className}>
+    <FieldShell label={label} error={error} hint={hint} required={required} className={className} count={countOf(props)}>
       {({ id, describedBy, invalid }) => (
         <input
           id={id}
@@ -61,7 +66,7 @@ export function TextField({ label, error, hint, className, required, ...props }:
 
 export function TextAreaField({ label, error, hint, className, required, ...props }: Common & TextareaHTMLAttributes<HTMLTextAreaElement>) {
   return (
-    <FieldShell label={label} error={error} hint={hint} required={required} className={className}>
+    <FieldShell label={label} error={error} hint={hint} required={required} className={className} count={countOf(props)}>
       {({ id, describedBy, invalid }) => (
         <textarea
           id={id}

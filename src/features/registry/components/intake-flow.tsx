@@ -70,6 +70,8 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
   const [job, setJob] = useState({ complaint: '', conditionNotes: '', promisedOn: '' });
   const [requestKey, setRequestKey] = useState(newKey);
   const [serverFields, setServerFields] = useState<Record<string, string>>({});
+  /** The instrument the server said this new one duplicates (409 already_registered). */
+  const [duplicateId, setDuplicateId] = useState<string | null>(null);
   const headingRef = useRef<HTMLHeadingElement>(null);
 
   // focus follows the step, so keyboard and screen-reader users start at the new step's heading
@@ -104,13 +106,30 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
     },
     onError: (error) => {
       if (!isApiError(error)) return;
-      const fields = error.fieldErrors;
+      const fields = { ...error.fieldErrors };
+      if (error.code === 'already_registered') {
+        // older servers named the field without its place in the request
+        const message = fields['instrument.new.serial'] ?? fields.serial ?? error.message;
+        delete fields.serial;
+        fields['instrument.new.serial'] = message;
+        setDuplicateId(typeof error.details.instrumentId === 'string' ? error.details.instrumentId : null);
+      }
       setServerFields(fields);
-      const keys = Object.keys(fields);
-      if (keys.some((k) => k.startsWith('instrument'))) setStep('instrument');
-      else if (keys.some((k) => k.startsWith('customer'))) setStep('customer');
+      // back to the step whose answer the server refused, where its field shows the message
+      const step = stepOfFields(Object.keys(fields));
+      if (step) setStep(step);
     },
   });
+
+  /** A field the person changes no longer carries the server's old complaint about it. */
+  const clearServerField = (key: string) => {
+    if (key === 'instrument.new.serial' || key === 'instrument.new.maker') setDuplicateId(null);
+    setServerFields((fields) => {
+      if (!(key in fields)) return fields;
+      const { [key]: _gone, ...rest } = fields;
+      return rest;
+    });
+  };
 
   const restart = () => {
     setStep('instrument');
@@ -120,6 +139,7 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
     setJob({ complaint: '', conditionNotes: '', promisedOn: '' });
     setRequestKey(newKey());
     setServerFields({});
+    setDuplicateId(null);
     submit.reset();
   };
 
@@ -156,15 +176,19 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
             <NewInstrumentForm
               initial={instrument.data}
               serverErrors={fieldsUnder(serverFields, 'instrument.new')}
+              duplicateId={duplicateId}
+              onEdit={(key) => clearServerField(`instrument.new.${key}`)}
               instrumentPath={instrumentPath}
               onCancel={() => setInstrument(null)}
               onUseExisting={(id) => {
                 setInstrument({ kind: 'existing', id });
+                setServerFields({});
+                setDuplicateId(null);
+                submit.reset();
                 setStep('customer');
               }}
               onDone={(data) => {
                 setInstrument({ kind: 'new', data });
-                setServerFields({});
                 setStep('customer');
               }}
             />
@@ -218,6 +242,7 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
             allowNone={!needsOwner}
             canAdd={canAddCustomer}
             serverErrors={serverFields}
+            onEdit={clearServerField}
             onContinue={() => setStep('job')}
             blocked={!!openJob || (instrument.kind === 'existing' && !existing.isSuccess)}
             ownerRequiredMessage={needsOwner ? 'A new instrument needs its owner: pick or add the customer or school.' : undefined}
@@ -242,6 +267,10 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
             onChange={setJob}
             minDate={todayIn(shop.timeZone)}
             serverErrors={{ ...fieldsUnder(serverFields, 'job'), ...pick(serverFields, ['complaint', 'promisedOn', 'conditionNotes']) }}
+            onEdit={(key) => {
+              clearServerField(`job.${key}`);
+              clearServerField(key);
+            }}
             submitting={submit.isPending}
             onSubmit={() => submit.mutate()}
           />
@@ -254,6 +283,14 @@ export function IntakeFlow({ shop, initialInstrumentId, canRegister, canAddCusto
       ) : null}
     </div>
   );
+}
+
+/** The step whose answers a set of server field errors are about. */
+function stepOfFields(keys: string[]): Exclude<Step, 'done'> | null {
+  if (keys.some((k) => k.startsWith('instrument'))) return 'instrument';
+  if (keys.some((k) => k === 'customer' || k.startsWith('customer.'))) return 'customer';
+  if (keys.some((k) => k.startsWith('job.') || ['complaint', 'promisedOn', 'conditionNotes'].includes(k))) return 'job';
+  return null;
 }
 
 const pick = (fields: Record<string, string>, keys: string[]) =>
@@ -294,10 +331,12 @@ function InstrumentSummary({
 }
 
 function NewInstrumentForm({
-  initial, serverErrors, onDone, onCancel, onUseExisting, instrumentPath,
+  initial, serverErrors, duplicateId, onEdit, onDone, onCancel, onUseExisting, instrumentPath,
 }: {
   initial: NewInstrumentInput;
   serverErrors: Record<string, string>;
+  duplicateId: string | null;
+  onEdit: (key: keyof NewInstrumentInput) => void;
   onDone: (data: NewInstrumentInput) => void;
   onCancel: () => void;
   onUseExisting: (id: string) => void;
@@ -305,13 +344,25 @@ function NewInstrumentForm({
 }) {
   const [draft, setDraft] = useState<NewInstrumentInput>(initial);
   const [errors, setErrors] = useState<Record<string, string>>({});
-  const set = <K extends keyof NewInstrumentInput>(key: K, value: NewInstrumentInput[K]) => setDraft((d) => ({ ...d, [key]: value }));
-  const serial = useDebouncedValue(String(draft.serial ?? '').trim(), 300);
-  const maker = useDebouncedValue(String(draft.maker ?? '').trim(), 300);
+  const [checking, setChecking] = useState(false);
+  const queryClient = useQueryClient();
+  const set = <K extends keyof NewInstrumentInput>(key: K, value: NewInstrumentInput[K]) => {
+    setDraft((d) => ({ ...d, [key]: value }));
+    // what was said about the old value no longer holds
+    setErrors(({ [key]: _stale, ...rest }) => rest);
+    onEdit(key);
+  };
+  const serialNow = String(draft.serial ?? '').trim();
+  const makerNow = String(draft.maker ?? '').trim();
+  const serial = useDebouncedValue(serialNow, 300);
+  const maker = useDebouncedValue(makerNow, 300);
   const check = useQuery(serialCheckQueryOptions(serial, maker));
+  // the answer shown must be about what is in the boxes now, not what was typed a moment ago
+  const current = serial === serialNow && maker === makerNow ? check.data : undefined;
+  const sameMaker = current?.sameMaker ?? null;
   const shown = { ...serverErrors, ...errors };
 
-  const onSubmit = (event: FormEvent) => {
+  const onSubmit = async (event: FormEvent) => {
     event.preventDefault();
     const parsed = newInstrumentSchema.safeParse(draft);
     if (!parsed.success) {
@@ -319,6 +370,19 @@ function NewInstrumentForm({
       return;
     }
     setErrors({});
+    // a quick Continue must not outrun the lookup: ask now for exactly what was typed
+    setChecking(true);
+    try {
+      const answer = await queryClient.fetchQuery(serialCheckQueryOptions(serialNow, makerNow));
+      if (answer.sameMaker) {
+        setErrors({ serial: 'This serial is already registered under this maker: use that one below.' });
+        return;
+      }
+    } catch {
+      // the lookup is a courtesy; the server refuses a duplicate anyway and says so at this step
+    } finally {
+      setChecking(false);
+    }
     onDone(draft);
   };
 
@@ -341,22 +405,32 @@ function NewInstrumentForm({
           ))}
         </SelectField>
       </div>
-      {check.data?.sameMaker ? (
+      {sameMaker ? (
         <div role="alert" className="rounded-xl border border-danger-200 bg-danger-50 px-4 py-3 text-sm">
           <p className="font-semibold text-danger-700">
-            {check.data.sameMaker.maker} {check.data.sameMaker.serial} is already in the registry.
+            {sameMaker.maker} {sameMaker.serial} is already in the registry
+            {sameMaker.model ? ` (${sameMaker.model}, ${familyLabel(sameMaker.family).toLowerCase()})` : ` (${familyLabel(sameMaker.family).toLowerCase()})`}, at {sameMaker.currentShop.name}.
           </p>
+          <p className="text-ink-800">One serial under one maker is one instrument: take that one in rather than registering it twice.</p>
           <div className="mt-2 flex flex-wrap gap-2">
-            <Button variant="secondary" onClick={() => onUseExisting(check.data!.sameMaker!.id)}>Take that one in</Button>
-            <Link className="self-center font-semibold text-accent-700 underline" to={instrumentPath(check.data.sameMaker.id)}>See its history</Link>
+            <Button variant="secondary" onClick={() => onUseExisting(sameMaker.id)}>Use that one</Button>
+            <Link className="self-center font-semibold text-accent-700 underline" to={instrumentPath(sameMaker.id)}>See its history</Link>
+          </div>
+        </div>
+      ) : duplicateId && serverErrors.serial ? (
+        <div role="alert" className="rounded-xl border border-danger-200 bg-danger-50 px-4 py-3 text-sm">
+          <p className="font-semibold text-danger-700">{serverErrors.serial}</p>
+          <div className="mt-2 flex flex-wrap gap-2">
+            <Button variant="secondary" onClick={() => onUseExisting(duplicateId)}>Use that one</Button>
+            <Link className="self-center font-semibold text-accent-700 underline" to={instrumentPath(duplicateId)}>See its history</Link>
           </div>
         </div>
       ) : null}
-      {check.data && check.data.otherMakers.length ? (
+      {current && current.otherMakers.length ? (
         <div role="note" className="rounded-xl border border-paper-300 bg-paper-50 px-4 py-3 text-sm text-ink-950">
           <p className="font-semibold">This serial is also registered under another maker:</p>
           <ul className="list-disc pl-5">
-            {check.data.otherMakers.map((o) => (
+            {current.otherMakers.map((o) => (
               <li key={o.id}>
                 {o.maker} {o.model ?? ''} ({familyLabel(o.family).toLowerCase()}), at {o.currentShop.name}
               </li>
@@ -367,14 +441,14 @@ function NewInstrumentForm({
       ) : null}
       <div className="flex flex-col-reverse gap-3 sm:flex-row sm:justify-end">
         <Button variant="quiet" onClick={onCancel}>Back to search</Button>
-        <Button type="submit" disabled={!!check.data?.sameMaker}>Continue</Button>
+        <Button type="submit" disabled={!!sameMaker || checking}>{checking ? 'Checking the registry…' : 'Continue'}</Button>
       </div>
     </form>
   );
 }
 
 function CustomerPicker({
-  value, onChange, ownerOnRecord, allowNone, canAdd, onContinue, blocked, serverErrors, ownerRequiredMessage,
+  value, onChange, ownerOnRecord, allowNone, canAdd, onContinue, blocked, serverErrors, onEdit, ownerRequiredMessage,
 }: {
   value: CustomerChoice | null;
   onChange: (choice: CustomerChoice) => void;
@@ -384,6 +458,7 @@ function CustomerPicker({
   onContinue: () => void;
   blocked: boolean;
   serverErrors: Record<string, string>;
+  onEdit: (key: string) => void;
   ownerRequiredMessage?: string;
 }) {
   const [q, setQ] = useState('');
@@ -415,7 +490,15 @@ function CustomerPicker({
     onContinue();
   };
 
+  const edit = <K extends keyof CustomerInput>(key: K, value: CustomerInput[K]) => {
+    setDraft((d) => ({ ...d, [key]: value }));
+    setErrors(({ [key]: _stale, ...rest }) => rest);
+    onEdit(`customer.new.${key}`);
+    onEdit('customer');
+  };
+
   const choose = (choice: CustomerChoice) => {
+    onEdit('customer');
     setMissing(null);
     setAdding(false);
     onChange(choice);
@@ -474,17 +557,17 @@ function CustomerPicker({
           <fieldset className="flex flex-col gap-4 rounded-xl border border-paper-300 p-4">
             <legend className="px-1 font-semibold text-ink-950">New customer</legend>
             <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
-              <SelectField label="Kind" required value={draft.kind} onChange={(e) => setDraft({ ...draft, kind: e.target.value as CustomerInput['kind'] })} error={shown.kind}>
+              <SelectField label="Kind" required value={draft.kind} onChange={(e) => edit('kind', e.target.value as CustomerInput['kind'])} error={shown.kind}>
                 {CUSTOMER_KINDS.map((k) => (
                   <option key={k} value={k}>{CUSTOMER_KIND_LABELS[k]}</option>
                 ))}
               </SelectField>
-              <TextField label="Name" required value={draft.name} onChange={(e) => setDraft({ ...draft, name: e.target.value })} error={shown.name} autoComplete="off" />
+              <TextField label="Name" required value={draft.name} onChange={(e) => edit('name', e.target.value)} error={shown.name} autoComplete="off" />
               {draft.kind !== 'person' ? (
-                <TextField label="Contact person" value={String(draft.contactName ?? '')} onChange={(e) => setDraft({ ...draft, contactName: e.target.value })} error={shown.contactName} />
+                <TextField label="Contact person" value={String(draft.contactName ?? '')} onChange={(e) => edit('contactName', e.target.value)} error={shown.contactName} />
               ) : null}
-              <TextField label="Phone" type="tel" value={String(draft.phone ?? '')} onChange={(e) => setDraft({ ...draft, phone: e.target.value })} error={shown.phone} />
-              <TextField label="E-mail" type="email" value={String(draft.email ?? '')} onChange={(e) => setDraft({ ...draft, email: e.target.value })} error={shown.email} />
+              <TextField label="Phone" type="tel" value={String(draft.phone ?? '')} onChange={(e) => edit('phone', e.target.value)} error={shown.phone} />
+              <TextField label="E-mail" type="email" value={String(draft.email ?? '')} onChange={(e) => edit('email', e.target.value)} error={shown.email} />
             </div>
             <Button variant="quiet" className="self-start" onClick={() => setAdding(false)}>Cancel the new customer</Button>
           </fieldset>
@@ -517,18 +600,26 @@ function ChoiceRow({ checked, onSelect, title, detail }: { checked: boolean; onS
   );
 }
 
+type JobDraft = { complaint: string; conditionNotes: string; promisedOn: string };
+
 function JobForm({
-  value, onChange, minDate, serverErrors, submitting, onSubmit,
+  value, onChange, minDate, serverErrors, onEdit, submitting, onSubmit,
 }: {
-  value: { complaint: string; conditionNotes: string; promisedOn: string };
-  onChange: (v: { complaint: string; conditionNotes: string; promisedOn: string }) => void;
+  value: JobDraft;
+  onChange: (v: JobDraft) => void;
   minDate: string;
   serverErrors: Record<string, string>;
+  onEdit: (key: keyof JobDraft) => void;
   submitting: boolean;
   onSubmit: () => void;
 }) {
   const [errors, setErrors] = useState<Record<string, string>>({});
   const shown = { ...serverErrors, ...errors };
+  const set = (key: keyof JobDraft, text: string) => {
+    onChange({ ...value, [key]: text });
+    setErrors(({ [key]: _stale, ...rest }) => rest);
+    onEdit(key);
+  };
   const submit = (event: FormEvent) => {
     event.preventDefault();
     const parsed = jobOpeningSchema.safeParse(value);
@@ -539,9 +630,9 @@ function JobForm({
   };
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4">
-      <TextAreaField label="What the customer reports" required value={value.complaint} onChange={(e) => onChange({ ...value, complaint: e.target.value })} error={shown.complaint} placeholder="e.g. Low notes gurgle below D; octave key sticks." />
-      <TextAreaField label="Condition at intake" value={value.conditionNotes} onChange={(e) => onChange({ ...value, conditionNotes: e.target.value })} error={shown.conditionNotes} hint="Dents, scratches, case, accessories: what the customer would want on record." />
-      <TextField label="Promised date" type="date" min={minDate} value={value.promisedOn} onChange={(e) => onChange({ ...value, promisedOn: e.target.value })} error={shown.promisedOn} className="sm:max-w-xs" />
+      <TextAreaField label="What the customer reports" required value={value.complaint} onChange={(e) => set('complaint', e.target.value)} error={shown.complaint} maxLength={2000} placeholder="e.g. Low notes gurgle below D; octave key sticks." />
+      <TextAreaField label="Condition at intake" value={value.conditionNotes} onChange={(e) => set('conditionNotes', e.target.value)} error={shown.conditionNotes} maxLength={4000} hint="Dents, scratches, case, accessories: what the customer would want on record." />
+      <TextField label="Promised date" type="date" min={minDate} value={value.promisedOn} onChange={(e) => set('promisedOn', e.target.value)} error={shown.promisedOn} className="sm:max-w-xs" />
       <div className="flex justify-end">
         <Button type="submit" size="lg" disabled={submitting}>
           {submitting ? 'Opening the job…' : 'Open the job'}
