@@ -40,6 +40,8 @@ export type FindingSeverity = 'error' | 'warning' | 'info';
 export type FindingField = 'cupDiameter' | 'cupDepth' | 'rimDiameter';
 export type FindingCode =
   | 'no_pad_fits'
+  | 'no_pad_large_enough'
+  | 'clearance_large'
   | 'rim_wider_than_cup'
   | 'rim_not_covered'
   | 'rim_overlap_small'
@@ -199,8 +201,15 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
       `The tone-hole rim (${formatMm(rim)}) is not smaller than the cup (${formatMm(cup)}): check both readings.`);
   }
 
-  const pad = choosePad(entry.padKind, cup, catalog, rules);
-  if (!pad) {
+  const chosen = choosePad(entry.padKind, cup, catalog, rules);
+  const largest = sortedCatalog(catalog[entry.padKind] ?? []).at(-1) ?? null;
+  const tooLoose = (p: CatalogPad) => nm(cup) - nm(p.diameterMm) > 2 * nm(rules.maxRadialClearanceMm);
+  // A cup larger than every pad: the largest pad would rattle in it and may miss the tone hole, so none is chosen.
+  const pad = chosen && tooLoose(chosen) && chosen === largest ? null : chosen;
+  if (chosen && !pad) {
+    add('no_pad_large_enough', 'error', 'cupDiameter',
+      `No pad large enough: the largest ${PAD_KIND_LABELS[entry.padKind].toLowerCase()} pad in the catalog (${formatMm(chosen.diameterMm)}) would leave ${formatMm(clean((cup - chosen.diameterMm) / 2))} per side in this ${formatMm(cup)} cup; at most ${formatMm(rules.maxRadialClearanceMm)} is allowed. Check the reading, or add a larger pad to the catalog.`);
+  } else if (!pad) {
     const limit = maxPadDiameterMm(entry.padKind, cup, rules);
     add('no_pad_fits', 'error', 'cupDiameter',
       entry.padKind === 'self_leveling'
@@ -211,6 +220,11 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
     result.padThicknessMm = pad.thicknessMm;
     result.partId = pad.partId ?? null;
     result.radialClearanceMm = clean((cup - pad.diameterMm) / 2);
+    if (tooLoose(pad)) {
+      const next = sortedCatalog(catalog[entry.padKind] ?? []).find((p) => nm(p.diameterMm) > nm(pad.diameterMm));
+      add('clearance_large', 'warning', 'cupDiameter',
+        `The ${formatMm(pad.diameterMm)} pad leaves ${formatMm(result.radialClearanceMm)} per side in this cup, more than the ${formatMm(rules.maxRadialClearanceMm)} allowed, so it may not stay centred over the tone hole; the catalog has nothing between ${formatMm(pad.diameterMm)} and ${formatMm(next!.diameterMm)}.`);
+    }
 
     if (rim == null) {
       add('rim_not_measured', 'info', 'rimDiameter', 'Seal not checked: no rim reading.');

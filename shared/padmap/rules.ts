@@ -28,6 +28,12 @@ export interface PadRules {
   minProtrusionMm: number;
   /** Self-leveling pads take this share of the catalog's repad hours. Default 0.5 (common practice). */
   selfLevelingLaborFactor: number;
+  /**
+   * A pad leaving more than this gap per side between it and the cup wall does not stay centred over the tone
+   * hole and may not cover it. Default 1.0 mm (common practice: a repadder fills the cup; a pad that leaves a
+   * millimetre or more of play each side is the wrong size).
+   */
+  maxRadialClearanceMm: number;
 }
 
 export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
@@ -37,6 +43,7 @@ export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
   stemHeightsMm: Object.freeze([0.5, 1.0, 1.5]) as number[],
   minProtrusionMm: 0.5,
   selfLevelingLaborFactor: 0.5,
+  maxRadialClearanceMm: 1.0,
 }) as PadRules;
 
 const mm = (min: number, max: number, label: string) =>
@@ -60,6 +67,11 @@ export const padRulesSchema = z.object({
     .number({ error: 'The labor factor must be a number.' })
     .min(0.1, 'The labor factor must be at least 0.1.')
     .max(2, 'The labor factor must be at most 2.'),
+  // optional so that a client saved before this rule existed still saves; the default fills it
+  maxRadialClearanceMm: mm(0.2, 5, 'Maximum clearance').default(1.0),
+}).refine((r) => r.maxRadialClearanceMm > r.selfLevelingMinClearanceMm, {
+  path: ['maxRadialClearanceMm'],
+  message: 'The maximum clearance must be larger than the self-leveling minimum.',
 });
 
 /** Stored rules merged over the defaults; anything malformed falls back to the default. */

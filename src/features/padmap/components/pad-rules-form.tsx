@@ -16,6 +16,7 @@ const FIELDS: Array<{ name: FieldName; label: string; unit: string; why: string 
   { name: 'minRimOverlapMm', label: 'Seal: minimum overlap of the tone-hole rim per side', unit: 'mm', why: 'Below it the map warns; a pad that does not cover the rim is an error. Default 0.5 mm (from memory).' },
   { name: 'stemHeightsMm', label: 'Mounting-stem heights in stock', unit: 'mm, comma separated', why: 'The lowest that lifts the pad face enough is chosen; one step taller for a sunken floor. Default 0.5, 1.0, 1.5 mm (common practice).' },
   { name: 'minProtrusionMm', label: 'Pad face above the cup rim, at least', unit: 'mm', why: 'Stem + pad thickness − cup depth. Default 0.5 mm (from memory).' },
+  { name: 'maxRadialClearanceMm', label: 'Any pad: maximum clearance per side', unit: 'mm', why: 'A pad looser than this may not stay centred over the tone hole: the map warns, and says “no pad large enough” when the catalog’s largest pad is that loose. Default 1.0 mm (common practice).' },
   { name: 'selfLevelingLaborFactor', label: 'Labor factor for self-leveling pads', unit: '× catalog hours', why: 'Self-leveling pads take this share of the catalog’s repad time. Default 0.5 (common practice).' },
 ];
 
@@ -26,6 +27,7 @@ const asText = (rules: PadRules): Record<FieldName, string> => ({
   stemHeightsMm: rules.stemHeightsMm.join(', '),
   minProtrusionMm: String(rules.minProtrusionMm),
   selfLevelingLaborFactor: String(rules.selfLevelingLaborFactor),
+  maxRadialClearanceMm: String(rules.maxRadialClearanceMm),
 });
 
 const toNumber = (text: string) => (text.trim() === '' ? Number.NaN : Number(text.trim().replace(',', '.')));
@@ -38,6 +40,7 @@ function fromText(text: Record<FieldName, string>) {
     stemHeightsMm: text.stemHeightsMm.split(/[;,\s]+/).filter(Boolean).map(toNumber),
     minProtrusionMm: toNumber(text.minProtrusionMm),
     selfLevelingLaborFactor: toNumber(text.selfLevelingLaborFactor),
+    maxRadialClearanceMm: toNumber(text.maxRadialClearanceMm),
   };
 }
 

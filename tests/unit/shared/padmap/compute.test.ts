@@ -43,6 +43,41 @@ describe('self-leveling pad diameter (common practice: 0.15 mm clearance per sid
   });
 });
 
+describe('a cup larger than every pad (common practice: at most 1.0 mm play per side)', () => {
+  // The fixture catalog runs 6.0 … 58.0 mm in 0.5 mm steps, in both kinds.
+  it('a 70 mm cup is "no pad large enough", not the 58 mm pad and "ok"', () => {
+    // self-leveling limit 70 − 2 × 0.15 = 69.7 mm → 58.0 mm would leave (70 − 58) / 2 = 6 mm per side > 1.0 mm
+    const r = computeKey(key({ cupDiameterMm: 70, rimDiameterMm: 64 }), catalog, rules);
+    expect(r.status).toBe('error');
+    expect(r.padDiameterMm).toBeNull();
+    expect(r.findings).toEqual([expect.objectContaining({ code: 'no_pad_large_enough', severity: 'error', field: 'cupDiameter' })]);
+    expect(r.findings[0].message).toMatch(/^No pad large enough: .*58\.00 mm.*6\.00 mm per side.*1\.00 mm/);
+    expect(computeKey(key({ padKind: 'glued', cupDiameterMm: 70, rimDiameterMm: null }), catalog, rules).findings.map((f) => f.code))
+      .toEqual(['no_pad_large_enough']);
+  });
+
+  it('at the limit: a 60.0 mm cup takes 58.0 mm (exactly 1.0 mm per side); 60.1 mm does not', () => {
+    const atLimit = computeKey(key({ cupDiameterMm: 60, rimDiameterMm: null }), catalog, rules);
+    expect(atLimit.padDiameterMm).toBe(58);
+    expect(atLimit.radialClearanceMm).toBe(1);
+    expect(atLimit.findings.map((f) => f.code)).toEqual(['rim_not_measured']);
+    expect(codes(key({ cupDiameterMm: 60.1, rimDiameterMm: null }))).toEqual(['no_pad_large_enough']);
+    // the owner allows 1.5 mm: (61 − 58) / 2 = 1.5 mm is within it again
+    expect(computeKey(key({ cupDiameterMm: 61, rimDiameterMm: null }), catalog, { ...rules, maxRadialClearanceMm: 1.5 }).padDiameterMm).toBe(58);
+  });
+
+  it('a gap in the catalog keeps the pad but warns that it is loose', () => {
+    const gappy = { self_leveling: [{ diameterMm: 28, thicknessMm: 3.6 }, { diameterMm: 31, thicknessMm: 3.6 }], glued: [] };
+    // 30.5 mm cup: limit 30.2 mm → 28 mm, (30.5 − 28) / 2 = 1.25 mm per side > 1.0 mm; 31 mm would not fit
+    const r = computeKey(key({ cupDiameterMm: 30.5, cupDepthMm: 4, rimDiameterMm: 26 }), gappy, rules);
+    expect(r.padDiameterMm).toBe(28);
+    expect(r.radialClearanceMm).toBe(1.25);
+    expect(r.status).toBe('warning');
+    expect(r.findings.map((f) => [f.code, f.severity])).toEqual([['clearance_large', 'warning']]);
+    expect(r.findings[0].message).toMatch(/1\.25 mm per side.*nothing between 28\.00 mm and 31\.00 mm/);
+  });
+});
+
 describe('glued pad diameter (snug; owner offset −0.5 … +0.5 mm, common practice differs)', () => {
   const glued = (cup: number, offset: number) =>
     computeKey(key({ padKind: 'glued', cupDiameterMm: cup, rimDiameterMm: null }), catalog, { ...rules, gluedOffsetMm: offset });

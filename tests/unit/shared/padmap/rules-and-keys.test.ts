@@ -5,7 +5,7 @@ import { hasPadKeys, keyName, PAD_KEYS_BY_FAMILY, padKeysFor } from '../../../..
 describe('pad rules', () => {
   it('defaults: 0.15 mm clearance, 0.5 mm overlap and protrusion, stems 0.5/1.0/1.5 mm, factor 0.5', () => {
     expect(DEFAULT_PAD_RULES).toEqual({
-      selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5,
+      selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, maxRadialClearanceMm: 1,
     });
   });
 
@@ -16,6 +16,14 @@ describe('pad rules', () => {
     expect(padRulesSchema.parse({ ...base, stemHeightsMm: [1.5, 0.5, 2] }).stemHeightsMm).toEqual([0.5, 1.5, 2]);
     expect(padRulesSchema.safeParse({ ...base, stemHeightsMm: [] }).success).toBe(false);
     expect(padRulesSchema.safeParse({ ...base, stemHeightsMm: [1, 1] }).success).toBe(false);
+  });
+
+  it('the maximum clearance is optional (1.0 mm) and must exceed the self-leveling minimum', () => {
+    const { maxRadialClearanceMm: _omitted, ...older } = DEFAULT_PAD_RULES;
+    expect(padRulesSchema.parse(older).maxRadialClearanceMm).toBe(1);
+    const tight = padRulesSchema.safeParse({ ...DEFAULT_PAD_RULES, selfLevelingMinClearanceMm: 0.5, maxRadialClearanceMm: 0.4 });
+    expect(tight.success).toBe(false);
+    expect(tight.error?.issues[0].path).toEqual(['maxRadialClearanceMm']);
   });
 
   it('stored rules are merged over the defaults, field by field', () => {
