@@ -1,6 +1,7 @@
 import { addDays, format, getISODay, parseISO, startOfDay } from 'date-fns';
 import { TZDate } from '@date-fns/tz';
 import type { IsoWeekday } from '../domain.js';
+import { isTimeZone } from '../schemas/shops.js';
 
 /**
  * Promised dates are counted in the shop's opening days, on the shop's own calendar.
@@ -22,10 +23,21 @@ export interface ShopCalendar {
   openingDays: readonly IsoWeekday[] | readonly number[];
 }
 
-/** Safety net against a calendar with no opening day at all. */
-function assertCalendar(shop: ShopCalendar) {
+/**
+ * Refuses a calendar the counting could never finish on: no opening day at all, or a time zone the runtime
+ * does not know (every date in it is Invalid Date, which matches no weekday, so the count would never end).
+ * The shop schema refuses both on the Shops screen; this catches rows written before it did.
+ */
+export class ShopCalendarError extends RangeError {
+  override name = 'ShopCalendarError';
+}
+
+export function assertCalendar(shop: ShopCalendar) {
   if (!shop.openingDays.length || shop.openingDays.some((d) => !Number.isInteger(d) || d < 1 || d > 7)) {
-    throw new RangeError('A shop needs at least one opening day (ISO weekdays 1–7).');
+    throw new ShopCalendarError('The shop has no opening days set (ISO weekdays 1–7): set them on the Shops screen before promising a date.');
+  }
+  if (typeof shop.timeZone !== 'string' || !isTimeZone(shop.timeZone)) {
+    throw new ShopCalendarError(`The shop's time zone "${String(shop.timeZone)}" is not a known time zone: set one such as America/Denver on the Shops screen.`);
   }
 }
 

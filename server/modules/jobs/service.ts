@@ -20,7 +20,7 @@ import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import { estimateTotals, formatBasisPoints, formatCents, laborHours, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
-import { addOpeningDays, formatCalendarDate, isOverdue, localDate } from '../../../shared/jobs/promised-date.js';
+import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import { allowedMoves, checkMove, mayRecordApproval, rolesAtShop, type MainStage } from '../../../shared/jobs/stage-machine.js';
 import { cautionsFor } from '../../../shared/jobs/cautions.js';
 import {
@@ -408,7 +408,15 @@ export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): 
       changes.requiredSkillId = input.requiredSkillId;
     }
     let promise: string | null | undefined;
-    if (input.promiseInOpeningDays !== undefined) promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+    if (input.promiseInOpeningDays !== undefined) {
+      try {
+        promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+      } catch (err) {
+        // a shop row with no opening day or an unknown time zone: say so instead of counting forever
+        if (err instanceof ShopCalendarError) throw conflict(err.message, { promiseInOpeningDays: err.message });
+        throw err;
+      }
+    }
     else if (input.promisedOn !== undefined) promise = input.promisedOn;
     if (promise !== undefined && promise !== job.promisedOn) {
       changes.promisedOn = promise;
