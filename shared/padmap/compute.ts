@@ -268,6 +268,11 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
   return result;
 }
 
+/** A pad size as catalogs write it: one decimal at least, two for quarter-millimetre steps (30.0, 30.25, 30.5). */
+export function padSizeText(mm: number): string {
+  return roundTo(mm, 2).toFixed(2).replace(/(\.\d)0$/, '$1');
+}
+
 /** Pads by kind, size and thickness, with how many of each and for which keys. */
 export function partsListOf(keys: KeyResult[], catalog: PadCatalog): PartsLine[] {
   const lines = new Map<string, PartsLine>();
@@ -287,7 +292,7 @@ export function partsListOf(keys: KeyResult[], catalog: PadCatalog): PartsLine[]
       thicknessMm: key.padThicknessMm,
       partId: key.partId,
       sku: pad?.sku ?? null,
-      name: pad?.name ?? `${PAD_KIND_LABELS[key.padKind]} pad ${key.padDiameterMm.toFixed(1)} mm`,
+      name: pad?.name ?? `${PAD_KIND_LABELS[key.padKind]} pad ${padSizeText(key.padDiameterMm)} mm`,
       unitPriceCents: pad?.unitPriceCents ?? null,
       quantity: 1,
       keyIds: [key.keyId],
@@ -304,7 +309,8 @@ export function laborEstimate(keys: KeyResult[], standardHours: number | null | 
   const chosen = keys.filter((k) => k.padDiameterMm != null);
   const selfLevelingPads = chosen.filter((k) => k.padKind === 'self_leveling').length;
   const gluedPads = chosen.length - selfLevelingPads;
-  const share = chosen.length ? (gluedPads + selfLevelingPads * rules.selfLevelingLaborFactor) / chosen.length : 1;
+  // no pad chosen (nothing measured yet, or every key needs attention): no repad time yet, not the catalog's full hours
+  const share = chosen.length ? (gluedPads + selfLevelingPads * rules.selfLevelingLaborFactor) / chosen.length : 0;
   return {
     standardHours,
     hours: roundTo(standardHours * share, 2),

@@ -43,6 +43,18 @@ describe('self-leveling pad diameter (common practice: 0.15 mm clearance per sid
   });
 });
 
+describe('a pad missing from the catalog is named by its size', () => {
+  it('shows quarter-millimetre sizes with two decimals, others with one', () => {
+    const quarter = { self_leveling: [{ diameterMm: 30.25, thicknessMm: 3.6 }, { diameterMm: 30, thicknessMm: 3.6 }], glued: [] };
+    // 30.6 mm cup: limit 30.3 mm → 30.25 mm; 30.4 mm cup: limit 30.1 mm → 30.0 mm. No names in this catalog.
+    const result = computePadMap({
+      entries: [key({ keyId: 'a', cupDiameterMm: 30.6, rimDiameterMm: null }), key({ keyId: 'b', cupDiameterMm: 30.4, rimDiameterMm: null })],
+      catalog: quarter, rules,
+    });
+    expect(result.parts.map((p) => p.name)).toEqual(['Self-leveling pad 30.0 mm', 'Self-leveling pad 30.25 mm']);
+  });
+});
+
 describe('a cup larger than every pad (common practice: at most 1.0 mm play per side)', () => {
   // The fixture catalog runs 6.0 … 58.0 mm in 0.5 mm steps, in both kinds.
   it('a 70 mm cup is "no pad large enough", not the 58 mm pad and "ok"', () => {
@@ -206,7 +218,11 @@ describe('the whole instrument', () => {
     const allSelfLeveling = entries.filter((e) => e.padKind === 'self_leveling').map((e) => computeKey(e, catalog, rules));
     expect(laborEstimate(allSelfLeveling, 6, rules)?.hours).toBe(3);
     expect(laborEstimate(allSelfLeveling, 6, { ...rules, selfLevelingLaborFactor: 0.8 })?.hours).toBe(4.8);
-    expect(laborEstimate([], 6, rules)?.hours).toBe(6);
+    // no pad chosen, no repad time: 0 h, not the catalog's full 6 h
+    expect(laborEstimate([], 6, rules)).toEqual({ standardHours: 6, hours: 0, factor: 0.5, selfLevelingPads: 0, gluedPads: 0 });
+    const noPad = computePadMap({ entries: [key({ cupDiameterMm: 5, rimDiameterMm: null })], catalog, rules, repadHours: 6 });
+    expect(noPad.keys[0].status).toBe('error'); // a 5 mm cup is smaller than the smallest (6 mm) pad
+    expect(noPad.labor?.hours).toBe(0);
     expect(computePadMap({ entries, catalog, rules }).labor).toBeNull();
   });
 });
