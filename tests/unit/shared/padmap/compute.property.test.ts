@@ -88,7 +88,11 @@ describe('pad choice, over random cups and catalogs', () => {
     fc.assert(
       fc.property(catalogArb, rulesArb, keyArb, (c, r, k) => {
         const result = computeKey(toKey({ ...k, kind: 'self_leveling' }), toCatalog(c), toRules(r));
-        if (result.padDiameterMm == null) return;
+        if (result.padDiameterMm == null) {
+          // no pad: then none of the catalog fits, or the catalog's largest is too loose
+          expect(expectedPad('self_leveling', k.cup, c, r)).toBeNull();
+          return;
+        }
         expect(k.cup - Math.round(result.padDiameterMm * 100)).toBeGreaterThanOrEqual(2 * r.clearance);
         expect(result.radialClearanceMm! * 100).toBeGreaterThanOrEqual(r.clearance - 1e-6);
       }),
@@ -100,7 +104,10 @@ describe('pad choice, over random cups and catalogs', () => {
     fc.assert(
       fc.property(catalogArb, rulesArb, keyArb, (c, r, k) => {
         const result = computeKey(toKey({ ...k, kind: 'glued' }), toCatalog(c), toRules(r));
-        if (result.padDiameterMm == null) return;
+        if (result.padDiameterMm == null) {
+          expect(expectedPad('glued', k.cup, c, r)).toBeNull();
+          return;
+        }
         expect(Math.round(result.padDiameterMm * 100)).toBeLessThanOrEqual(k.cup + r.offset);
       }),
       RUNS,
@@ -138,12 +145,31 @@ describe('stem height, over random depths and stem lists', () => {
       fc.property(catalogArb, rulesArb, keyArb, (c, r, k) => {
         const key = { ...k, kind: 'self_leveling' as const, floor: 'flat' as const };
         const result = computeKey(toKey(key), toCatalog(c), toRules(r));
-        if (result.stemHeightMm == null) return;
+        if (result.stemHeightMm == null) {
+          // no stem only when there is no pad or no depth to work from
+          expect(expectedPad('self_leveling', key.cup, c, r) == null || key.depth == null).toBe(true);
+          return;
+        }
         const chosen = Math.round(result.stemHeightMm * 100);
         const satisfies = (s: number) => s + c.thickness - key.depth! >= r.protrusion;
         const lowest = [...r.stems].sort((a, b) => a - b).find(satisfies);
         expect(chosen).toBe(lowest ?? Math.max(...r.stems));
         for (const lower of r.stems.filter((s) => s < chosen)) expect(satisfies(lower)).toBe(false);
+      }),
+      RUNS,
+    );
+  });
+
+  it('on a sunken floor the chosen stem is taller than the one a flat floor gets, when one is stocked', () => {
+    fc.assert(
+      fc.property(catalogArb, rulesArb, keyArb, (c, r, k) => {
+        const key = { ...k, kind: 'self_leveling' as const, depth: k.depth ?? 300 };
+        const flat = computeKey(toKey({ ...key, floor: 'flat' }), toCatalog(c), toRules(r)).stemHeightMm;
+        const sunken = computeKey(toKey({ ...key, floor: 'sunken' }), toCatalog(c), toRules(r)).stemHeightMm;
+        expect(sunken == null).toBe(flat == null);
+        if (flat == null || sunken == null) return;
+        const tallest = Math.max(...r.stems);
+        expect(Math.round(sunken * 100)).toBe(Math.round(flat * 100) === tallest ? tallest : Math.min(...r.stems.filter((s) => s > Math.round(flat * 100))));
       }),
       RUNS,
     );
@@ -171,11 +197,12 @@ describe('every finding appears exactly when its rule fails', () => {
         const pad = expectedPad(k.kind, k.cup, c, r);
         const sl = k.kind === 'self_leveling';
         const stems = [...r.stems].sort((a, b) => a - b);
+        // short when no stocked stem lifts the face enough, or, on a sunken floor, when none is taller than the
+        // lowest that does (the sunken centre takes a taller stem than a flat floor: common practice)
         let stemShort = false;
         if (sl && pad != null && k.depth != null) {
-          let i = stems.findIndex((s) => s + c.thickness - k.depth! >= r.protrusion);
-          if (i >= 0 && k.floor === 'sunken') i += 1;
-          stemShort = i < 0 || i >= stems.length;
+          const enough = stems.filter((s) => s + c.thickness - k.depth! >= r.protrusion);
+          stemShort = enough.length === 0 || (k.floor === 'sunken' && !stems.some((s) => s > enough[0]));
         }
         const expected: Record<string, boolean> = {
           no_pad_fits: largestAllowed(k.kind, k.cup, c, r) == null,
