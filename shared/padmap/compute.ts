@@ -133,7 +133,8 @@ export function sortedCatalog(pads: CatalogPad[]): CatalogPad[] {
 }
 
 /**
- * The largest diameter a pad may have in this cup.
+ * The largest diameter a pad may have in this cup (the clearances and offsets are the owner's pad rules; their
+ * defaults and sources are in rules.ts).
  * Self-leveling: cup − 2 × minimum clearance, so the pad can tilt; it may touch lightly but never bind.
  * Glued: cup + the owner's offset (a snug fit).
  */
@@ -156,7 +157,7 @@ export function choosePad(kind: PadKind, cupDiameterMm: number, catalog: PadCata
 
 /**
  * The lowest stocked stem that lifts the pad face at least the minimum above the rim; one step
- * taller for a sunken floor. `index` is past the end when even the tallest is not enough.
+ * taller for a sunken floor (common practice: the stem stands in the dip of a sunken centre, so it sits lower). `index` is past the end when even the tallest is not enough.
  */
 export function chooseStem(
   cupDepthMm: number,

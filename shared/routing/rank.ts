@@ -20,9 +20,10 @@ export interface RoutingSettings {
 }
 
 /**
- * Defaults for a network that has set nothing (network.settings.routing overrides each). These are
- * working assumptions, not published figures: 60 km/h allows for the detour of real roads over the
- * great circle and for stops; a day of handling covers booking a courier and the two hand-overs.
+ * Defaults for a network that has set nothing (network.settings.routing overrides each). None is a
+ * published figure: 60 km/h over the great circle (from memory: road distance runs about 1.2–1.4 × the
+ * great circle, at highway speeds with stops) and 24 h of handling (booking a courier and two hand-overs)
+ * and the 2 h packing lead are invented for the demo; a 09:00–17:00 bench day is common practice.
  */
 export const DEFAULT_ROUTING_SETTINGS: RoutingSettings = {
   roadSpeedKmh: 60,

@@ -125,6 +125,8 @@ function customerView(actor: Actor, c: CustomerRow, served: string[]): CustomerV
  * in the middle of a serial of n characters leaves (n-2) of its n+1 trigrams, a similarity of
  * (n-2)/(n+4): 0.4 at 6 characters, 0.45 at 7, 0.57 at 10. Shorter text is still being typed; the
  * prefix and fragment kinds answer it, and a near miss of four letters would match half the registry.
+ * Worked from pg_trgm's documented trigram counting (two spaces before, one after each word); the 6-character
+ * minimum is common practice for fuzzy lookups (shorter strings have too few trigrams to tell apart).
  */
 export function similarityThreshold(length: number): number | null {
   if (length < 6) return null;
@@ -135,7 +137,7 @@ export function similarityThreshold(length: number): number | null {
 /** Serials this long or longer get near misses (one edit away, and trigram look-alikes); shorter ones match too much. */
 const NEAR_MISS_MIN_LENGTH = 6;
 
-/** Trigram look-alikes are the fallback: when the literal kinds found this many, or any exact hit, they are enough. */
+/** Trigram look-alikes are the fallback: when the literal kinds found this many, or any exact hit, they are enough (a working choice, invented). */
 const ENOUGH_LITERAL_HITS = 3;
 
 
