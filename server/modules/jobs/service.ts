@@ -344,6 +344,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       name: shop.name,
       timeZone: shop.timeZone,
       openingDays: shop.openingDays,
+      country: shop.country ?? null,
+      region: shop.region ?? null,
       laborRateCents: shop.laborRateCents,
       taxRateBasisPoints: shop.taxRateBasisPoints,
     },

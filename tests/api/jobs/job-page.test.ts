@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { buildApp } from '../../../server/app.js';
-import { HistoryEvent, Instrument, Job } from '../../../server/lib/models.js';
+import { HistoryEvent, Instrument, Job, Shop } from '../../../server/lib/models.js';
 import { closeServerResources } from '../../helpers/close.js';
 import { makeInstrumentWithJob, makeNetwork, makeShop, makeUser } from '../../helpers/factories.js';
 import { makeBenchWorld } from '../../helpers/bench-world.js';
@@ -199,6 +199,9 @@ describe('the job page API', () => {
 
   it('sets the promise in the shop’s opening days, assigns a technician of the shop, and notes both in the history', async () => {
     const { job, instrument } = await newJob('approved');
+    // ZZ is an ISO 3166 user-assigned code with no holiday calendar: weekdays only, whatever today is
+    // (public holidays are checked against a published calendar in tests/reference/holidays.test.ts)
+    await Shop.update({ country: 'ZZ' }, { where: { networkId: w.network.id, id: w.shop.id } });
     const res = await request(app)
       .patch(`/api/jobs/${job.id}`)
       .set('Cookie', w.cookies.front_desk)
@@ -211,6 +214,7 @@ describe('the job page API', () => {
     const today = new Date(Date.UTC(y, m - 1, d));
     const plus = { 0: 5, 6: 6 }[today.getUTCDay()] ?? 7;
     expect(res.body.job.promisedOn).toBe(new Date(today.getTime() + plus * 86_400_000).toISOString().slice(0, 10));
+    await Shop.update({ country: 'US' }, { where: { networkId: w.network.id, id: w.shop.id } });
     expect(res.body.job.assignee.id).toBe(w.people.technician.id);
     expect(res.body.job.conditionNotes).toBe('Bell rim dented; case latch broken.');
     const notNow = await request(app)
