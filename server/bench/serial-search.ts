@@ -141,6 +141,22 @@ function typo(normalized: string, rand: () => number): string {
   return normalized.slice(0, at) + c + normalized.slice(at + 1);
 }
 
+function swapNeighbours(normalized: string, rand: () => number): string {
+  let at = Math.floor(rand() * (normalized.length - 1));
+  for (let tries = 0; normalized[at] === normalized[at + 1] && tries < normalized.length; tries++) at = (at + 1) % (normalized.length - 1);
+  return normalized.slice(0, at) + normalized[at + 1] + normalized[at] + normalized.slice(at + 2);
+}
+
+function dropOne(normalized: string, rand: () => number): string {
+  const at = Math.floor(rand() * normalized.length);
+  return normalized.slice(0, at) + normalized.slice(at + 1);
+}
+
+function addOne(normalized: string, rand: () => number): string {
+  const at = Math.floor(rand() * (normalized.length + 1));
+  return normalized.slice(0, at) + '0123456789'[Math.floor(rand() * 10)] + normalized.slice(at);
+}
+
 const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 
 async function main() {
@@ -155,6 +171,9 @@ async function main() {
     { name: 'exact, retyped (case, separators)', query: (s) => retype(s.serial, rand), expect: 'first' },
     { name: 'prefix while typing (4–7 chars)', query: (s) => s.normalized.slice(0, 4 + Math.floor(rand() * 4)) },
     { name: 'one-character typo', query: (s) => typo(s.normalized, rand), expect: 'found' },
+    { name: 'neighbours swapped', query: (s) => swapNeighbours(s.normalized, rand), expect: 'found' },
+    { name: 'one character dropped', query: (s) => dropOne(s.normalized, rand), expect: 'found' },
+    { name: 'one character added', query: (s) => addOne(s.normalized, rand), expect: 'found' },
     { name: 'fragment from the middle (5 chars)', query: (s) => s.normalized.slice(3, 8) },
     { name: 'not in the registry', query: () => `ZZ${Math.floor(rand() * 1e6)}Q` },
   ];

@@ -67,6 +67,11 @@ function localDate(at: Date, timeZone: string): string {
 // ---------------------------------------------------------------------------------------------
 // Static content
 
+/*
+ * Invented for the demo: shops, addresses, phone numbers (555 numbers) and labor rates. Tax rates are from
+ * memory, near each city's combined sales tax around 2024 (10.25 % Seattle and Chicago, none in Oregon,
+ * 8.75 % Sacramento, 8.81 % Denver); not checked against any tax authority, not for real invoices.
+ */
 const SHOPS = [
   {
     code: 'SEA', name: 'Harborline Seattle', addressLine: '2217 Alder Crescent', city: 'Seattle', region: 'WA',

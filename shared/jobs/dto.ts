@@ -105,6 +105,9 @@ export interface JobDetail {
     name: string;
     timeZone: string;
     openingDays: number[];
+    /** For the promised date's public holidays (the same rule the server applies). */
+    country: string | null;
+    region: string | null;
     laborRateCents: number;
     taxRateBasisPoints: number;
   };

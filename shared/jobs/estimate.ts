@@ -2,8 +2,8 @@
  * Estimate arithmetic in integer cents, shared by the server (what is stored and e-mailed) and the
  * client (the preview while editing), so both always show the same total.
  *
- * Rounding — one rule, everywhere: **half away from zero to the whole cent** (amounts here are never
- * negative, so this is "half up").
+ * Rounding — one rule, everywhere: **half away from zero to the whole cent**. A credit (a part line with a
+ * negative unit price, as an invoice may carry) rounds the same way on the negative side: −0.5 ¢ → −1 ¢.
  * 1. Each line is rounded on its own: labor = hours × rate, a part = quantity × unit price.
  *    Hours and quantities carry at most two decimals (the database columns are NUMERIC(…, 2)).
  * 2. The subtotal is the plain sum of the rounded lines.
@@ -82,23 +82,29 @@ function assertCents(value: number, what: string) {
   if (!Number.isSafeInteger(value) || value < 0) throw new RangeError(`${what} must be a whole number of cents ≥ 0, got ${value}`);
 }
 
-/** One line's amount in cents (rule 1). */
+/** numerator / denominator rounded half away from zero, for a numerator of either sign. */
+function divideRoundHalfAway(numerator: number, denominator: number): number {
+  const magnitude = divideRoundHalfUp(Math.abs(numerator), denominator);
+  return numerator < 0 ? -magnitude : magnitude;
+}
+
+/** One line's amount in cents (rule 1); a part line with a negative unit price is a credit. */
 export function lineTotalCents(line: EstimateLine): number {
   if (line.kind === 'labor') {
     assertCents(line.rateCents, 'Labor rate');
     return divideRoundHalfUp(toHundredths(line.hours) * line.rateCents, 100);
   }
-  assertCents(line.unitPriceCents, 'Unit price');
-  return divideRoundHalfUp(toHundredths(line.quantity) * line.unitPriceCents, 100);
+  if (!Number.isSafeInteger(line.unitPriceCents)) throw new RangeError(`Unit price must be a whole number of cents, got ${line.unitPriceCents}`);
+  return divideRoundHalfAway(toHundredths(line.quantity) * line.unitPriceCents, 100);
 }
 
-/** Tax on a subtotal (rule 3). */
+/** Tax on a subtotal (rule 3); a subtotal below zero (credits over the charges) gives tax back, rounded the same way. */
 export function taxCents(subtotalCents: number, taxRateBasisPoints: number): number {
-  assertCents(subtotalCents, 'Subtotal');
+  if (!Number.isSafeInteger(subtotalCents)) throw new RangeError(`Subtotal must be a whole number of cents, got ${subtotalCents}`);
   if (!Number.isInteger(taxRateBasisPoints) || taxRateBasisPoints < 0 || taxRateBasisPoints > 10_000) {
     throw new RangeError(`Tax rate must be 0–10000 basis points, got ${taxRateBasisPoints}`);
   }
-  return divideRoundHalfUp(subtotalCents * taxRateBasisPoints, 10_000);
+  return divideRoundHalfAway(subtotalCents * taxRateBasisPoints, 10_000);
 }
 
 export function estimateTotals(lines: readonly EstimateLine[], taxRateBasisPoints: number): EstimateTotals {

@@ -40,6 +40,8 @@ export type FindingSeverity = 'error' | 'warning' | 'info';
 export type FindingField = 'cupDiameter' | 'cupDepth' | 'rimDiameter';
 export type FindingCode =
   | 'no_pad_fits'
+  | 'no_pad_large_enough'
+  | 'clearance_large'
   | 'rim_wider_than_cup'
   | 'rim_not_covered'
   | 'rim_overlap_small'
@@ -135,7 +137,8 @@ export function sortedCatalog(pads: CatalogPad[]): CatalogPad[] {
 }
 
 /**
- * The largest diameter a pad may have in this cup.
+ * The largest diameter a pad may have in this cup (the clearances and offsets are the owner's pad rules; their
+ * defaults and sources are in rules.ts).
  * Self-leveling: cup − 2 × minimum clearance, so the pad can tilt; it may touch lightly but never bind.
  * Glued: cup + the owner's offset (a snug fit).
  */
@@ -158,7 +161,7 @@ export function choosePad(kind: PadKind, cupDiameterMm: number, catalog: PadCata
 
 /**
  * The lowest stocked stem that lifts the pad face at least the minimum above the rim; one step
- * taller for a sunken floor. `index` is past the end when even the tallest is not enough.
+ * taller for a sunken floor (common practice: the stem stands in the dip of a sunken centre, so it sits lower). `index` is past the end when even the tallest is not enough.
  */
 export function chooseStem(
   cupDepthMm: number,
@@ -203,8 +206,15 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
       `The tone-hole rim (${formatMm(rim)}) is not smaller than the cup (${formatMm(cup)}): check both readings.`);
   }
 
-  const pad = choosePad(entry.padKind, cup, catalog, rules);
-  if (!pad) {
+  const chosen = choosePad(entry.padKind, cup, catalog, rules);
+  const largest = sortedCatalog(catalog[entry.padKind] ?? []).at(-1) ?? null;
+  const tooLoose = (p: CatalogPad) => nm(cup) - nm(p.diameterMm) > 2 * nm(rules.maxRadialClearanceMm);
+  // A cup larger than every pad: the largest pad would rattle in it and may miss the tone hole, so none is chosen.
+  const pad = chosen && tooLoose(chosen) && chosen === largest ? null : chosen;
+  if (chosen && !pad) {
+    add('no_pad_large_enough', 'error', 'cupDiameter',
+      `No pad large enough: the largest ${PAD_KIND_LABELS[entry.padKind].toLowerCase()} pad in the catalog (${formatMm(chosen.diameterMm)}) would leave ${formatMm(clean((cup - chosen.diameterMm) / 2))} per side in this ${formatMm(cup)} cup; at most ${formatMm(rules.maxRadialClearanceMm)} is allowed. Check the reading, or add a larger pad to the catalog.`);
+  } else if (!pad) {
     const limit = maxPadDiameterMm(entry.padKind, cup, rules);
     add('no_pad_fits', 'error', 'cupDiameter',
       entry.padKind === 'self_leveling'
@@ -215,6 +225,11 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
     result.padThicknessMm = pad.thicknessMm;
     result.partId = pad.partId ?? null;
     result.radialClearanceMm = clean((cup - pad.diameterMm) / 2);
+    if (tooLoose(pad)) {
+      const next = sortedCatalog(catalog[entry.padKind] ?? []).find((p) => nm(p.diameterMm) > nm(pad.diameterMm));
+      add('clearance_large', 'warning', 'cupDiameter',
+        `The ${formatMm(pad.diameterMm)} pad leaves ${formatMm(result.radialClearanceMm)} per side in this cup, more than the ${formatMm(rules.maxRadialClearanceMm)} allowed, so it may not stay centred over the tone hole; the catalog has nothing between ${formatMm(pad.diameterMm)} and ${formatMm(next!.diameterMm)}.`);
+    }
 
     if (rim == null) {
       add('rim_not_measured', 'info', 'rimDiameter', 'Seal not checked: no rim reading.');
@@ -258,6 +273,11 @@ export function computeKey(entry: KeyMeasurement, catalog: PadCatalog, rules: Pa
   return result;
 }
 
+/** A pad size as catalogs write it: one decimal at least, two for quarter-millimetre steps (30.0, 30.25, 30.5). */
+export function padSizeText(mm: number): string {
+  return roundTo(mm, 2).toFixed(2).replace(/(\.\d)0$/, '$1');
+}
+
 /** Pads by kind, size and thickness, with how many of each and for which keys. */
 export function partsListOf(keys: KeyResult[], catalog: PadCatalog): PartsLine[] {
   const lines = new Map<string, PartsLine>();
@@ -277,7 +297,7 @@ export function partsListOf(keys: KeyResult[], catalog: PadCatalog): PartsLine[]
       thicknessMm: key.padThicknessMm,
       partId: key.partId,
       sku: pad?.sku ?? null,
-      name: pad?.name ?? `${PAD_KIND_LABELS[key.padKind]} pad ${key.padDiameterMm.toFixed(1)} mm`,
+      name: pad?.name ?? `${PAD_KIND_LABELS[key.padKind]} pad ${padSizeText(key.padDiameterMm)} mm`,
       unitPriceCents: pad?.unitPriceCents ?? null,
       quantity: 1,
       keyIds: [key.keyId],

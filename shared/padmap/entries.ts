@@ -12,7 +12,11 @@ import { LENGTH_UNITS, parseLength, type LengthUnit } from './units.js';
 export const MEASURE_FIELDS = ['cupDiameter', 'cupDepth', 'rimDiameter'] as const;
 export type MeasureField = (typeof MEASURE_FIELDS)[number];
 
-/** Plausible ranges catch a reading typed in the wrong unit (30.5 taken as inches is 774.7 mm). */
+/**
+ * Plausible ranges catch a reading typed in the wrong unit (30.5 taken as inches is 774.7 mm). From memory:
+ * the smallest woodwind pad cups are about 6 mm and the bell keys of a baritone or bass saxophone are about
+ * 60–70 mm, so 2–120 mm leaves room on both sides; cups are a few millimetres deep, 30 mm is far past any.
+ */
 export const MEASURE_LIMITS_MM: Record<MeasureField, { min: number; max: number; label: string }> = {
   cupDiameter: { min: 2, max: 120, label: 'Cup diameter' },
   cupDepth: { min: 0.1, max: 30, label: 'Cup depth' },

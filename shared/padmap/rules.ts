@@ -36,6 +36,12 @@ export interface PadRules {
   repadBaseHours: number;
   /** Hours per key repadded with a glued pad. Default 0.25 h: a Benchrelay pricing default the owner sets. */
   repadHoursPerKey: number;
+  /**
+   * A pad leaving more than this gap per side between it and the cup wall does not stay centred over the tone
+   * hole and may not cover it. Default 1.0 mm (common practice: a repadder fills the cup; a pad that leaves a
+   * millimetre or more of play each side is the wrong size).
+   */
+  maxRadialClearanceMm: number;
 }
 
 export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
@@ -47,6 +53,7 @@ export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
   selfLevelingLaborFactor: 0.5,
   repadBaseHours: 1.5,
   repadHoursPerKey: 0.25,
+  maxRadialClearanceMm: 1.0,
 }) as PadRules;
 
 const mm = (min: number, max: number, label: string) =>
@@ -78,6 +85,11 @@ export const padRulesSchema = z.object({
     .number({ error: 'Enter a number of hours.' })
     .min(0.05, 'The hours per key must be at least 0.05.')
     .max(2, 'The hours per key must be at most 2.'),
+  // optional so that a client saved before this rule existed still saves; the default fills it
+  maxRadialClearanceMm: mm(0.2, 5, 'Maximum clearance').default(1.0),
+}).refine((r) => r.maxRadialClearanceMm > r.selfLevelingMinClearanceMm, {
+  path: ['maxRadialClearanceMm'],
+  message: 'The maximum clearance must be larger than the self-leveling minimum.',
 });
 
 /** Stored rules merged over the defaults; anything malformed falls back to the default. */

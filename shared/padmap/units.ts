@@ -18,7 +18,9 @@ export type ParsedLength =
 const UNIT_WORDS: Record<string, LengthUnit | 'cm'> = {
   mm: 'mm', millimetre: 'mm', millimetres: 'mm', millimeter: 'mm', millimeters: 'mm',
   cm: 'cm',
-  in: 'in', inch: 'in', inches: 'in', '"': 'in', '″': 'in', "''": 'in',
+  in: 'in', inch: 'in', inches: 'in', '"': 'in', "''": 'in',
+  // phones turn a typed " into a curly quote; the double prime is the proper inch mark
+  '\u201D': 'in', '\u201C': 'in', '\u2033': 'in', '\u2019\u2019': 'in', '\u2032\u2032': 'in',
 };
 
 const NUMBER = /^(\d+(?:[.,]\d*)?|[.,]\d+)$/;
@@ -67,7 +69,7 @@ export function parseLength(input: string | number, defaultUnit: LengthUnit = 'm
   }
   const text = input.trim().toLowerCase();
   if (!text) return { ok: false, error: 'Enter a length.' };
-  const match = /^([0-9.,]+)\s*([a-z"″']*)\.?$/.exec(text);
+  const match = /^([0-9.,]+)\s*([a-z"'\u201C\u201D\u2019\u2032\u2033]*)\.?$/.exec(text);
   if (!match || !NUMBER.test(match[1])) {
     return { ok: false, error: 'Type a length such as 30.5, 30.5mm or 1.200in.' };
   }

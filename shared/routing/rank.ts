@@ -20,9 +20,10 @@ export interface RoutingSettings {
 }
 
 /**
- * Defaults for a network that has set nothing (network.settings.routing overrides each). These are
- * working assumptions, not published figures: 60 km/h allows for the detour of real roads over the
- * great circle and for stops; a day of handling covers booking a courier and the two hand-overs.
+ * Defaults for a network that has set nothing (network.settings.routing overrides each). None is a
+ * published figure: 60 km/h over the great circle (from memory: road distance runs about 1.2–1.4 × the
+ * great circle, at highway speeds with stops) and 24 h of handling (booking a courier and two hand-overs)
+ * and the 2 h packing lead are invented for the demo; a 09:00–17:00 bench day is common practice.
  */
 export const DEFAULT_ROUTING_SETTINGS: RoutingSettings = {
   roadSpeedKmh: 60,
@@ -41,6 +42,10 @@ export function routingSettings(networkSettings: Record<string, unknown> | null 
     if (typeof value === 'number' && Number.isFinite(value) && value >= 0) out[key] = value;
   }
   if (out.roadSpeedKmh <= 0) out.roadSpeedKmh = DEFAULT_ROUTING_SETTINGS.roadSpeedKmh;
+  if (!(out.workdayEndHour > out.workdayStartHour) || out.workdayEndHour > 24) {
+    out.workdayStartHour = DEFAULT_ROUTING_SETTINGS.workdayStartHour;
+    out.workdayEndHour = DEFAULT_ROUTING_SETTINGS.workdayEndHour;
+  }
   return out;
 }
 
@@ -101,6 +106,8 @@ export interface RankedShop {
   benchStartDate: string | null;
   finishDate: string | null;
   finishAt: string | null;
+  /** When the shop would be through the work already waiting for the skill, working from now. */
+  backlogClearAt: string | null;
   reasons: RoutingReason[];
 }
 
@@ -128,28 +135,52 @@ export function formatWeekdays(days: number[]): string {
   return sorted.map((d) => WEEKDAY_NAMES[d - 1]).join(', ');
 }
 
-/** The start of the first bench day, at or after `availableAt`, on a day the shop opens. */
-function firstBenchDay(availableAt: Date, c: RoutingCandidate, s: RoutingSettings) {
-  const p = localParts(availableAt, c.timeZone);
-  for (let offset = 0; offset <= 14; offset++) {
-    const start = atLocal(p.year, p.month, p.day + offset, s.workdayStartHour, 0, c.timeZone);
-    const weekday = localParts(start, c.timeZone).isoWeekday;
-    if (c.openingDays.includes(weekday) && start.getTime() >= availableAt.getTime()) return start;
+/**
+ * The instant `hours` of the skill's bench work are done at a shop, working from `from`. Each opening day gives
+ * the skill its daily bench hours, spread evenly over the bench day (workdayStartHour to workdayEndHour, local).
+ * With 0 hours it is the first bench moment at or after `from`. null when the shop never works (no opening day).
+ */
+export function addBenchHours(from: Date, hours: number, c: RoutingCandidate, dailyBenchHours: number, s: RoutingSettings): Date | null {
+  if (!(dailyBenchHours > 0) || !c.openingDays.length || !(s.workdayEndHour > s.workdayStartHour)) return null;
+  const p = localParts(from, c.timeZone);
+  let remaining = Math.max(0, hours);
+  // enough calendar days for every bench day the work needs, whichever days of the week the shop opens
+  const horizon = 7 * (Math.ceil(remaining / dailyBenchHours) + 2);
+  for (let offset = 0; offset <= horizon; offset++) {
+    const dayStart = atLocal(p.year, p.month, p.day + offset, s.workdayStartHour, 0, c.timeZone);
+    if (!c.openingDays.includes(localParts(dayStart, c.timeZone).isoWeekday)) continue;
+    const dayEnd = atLocal(p.year, p.month, p.day + offset, s.workdayEndHour, 0, c.timeZone);
+    const begin = Math.max(dayStart.getTime(), from.getTime());
+    if (begin >= dayEnd.getTime()) continue;
+    const dayMs = dayEnd.getTime() - dayStart.getTime();
+    const available = (dailyBenchHours * (dayEnd.getTime() - begin)) / dayMs;
+    // a small tolerance so 40 h at 8 h a day ends on the fifth day, not the sixth, after floating-point noise
+    if (remaining <= available + 1e-9) return new Date(begin + Math.round((remaining / dailyBenchHours) * dayMs));
+    remaining -= available;
   }
   return null;
 }
 
-/** The n-th opening day counting `start` as the first; returns the end of that bench day. */
-function nthBenchDayEnd(start: Date, n: number, c: RoutingCandidate, s: RoutingSettings) {
+/** Opening days from the day of `start` to the day of `end`, both counted, in the shop's zone. */
+function openingDaysBetween(start: Date, end: Date, c: RoutingCandidate): number {
   const p = localParts(start, c.timeZone);
-  let counted = 0;
-  for (let offset = 0; offset < 7 * (n + 2); offset++) {
-    const dayStart = atLocal(p.year, p.month, p.day + offset, s.workdayStartHour, 0, c.timeZone);
-    if (!c.openingDays.includes(localParts(dayStart, c.timeZone).isoWeekday)) continue;
-    counted++;
-    if (counted === n) return atLocal(p.year, p.month, p.day + offset, s.workdayEndHour, 0, c.timeZone);
+  const last = localDate(end, c.timeZone);
+  let count = 0;
+  for (let offset = 0; offset < 3660; offset++) {
+    const noon = atLocal(p.year, p.month, p.day + offset, 12, 0, c.timeZone);
+    if (c.openingDays.includes(localParts(noon, c.timeZone).isoWeekday)) count++;
+    if (localDate(noon, c.timeZone) >= last) break;
   }
-  return null;
+  return count;
+}
+
+interface TripOption {
+  transport: 'relay_run' | 'road';
+  arrivalAt: Date;
+  relayRunId: string | null;
+  departureAt: Date | null;
+  distanceKm: number | null;
+  text: string;
 }
 
 export function rankShops(request: RoutingRequest): RoutingResult {
@@ -167,46 +198,85 @@ export function rankShops(request: RoutingRequest): RoutingResult {
     let departureAt: Date | null = null;
     let distanceKm: number | null = null;
 
+    const openingDays = c.openingDays.filter((d) => d >= 1 && d <= 7);
+    const dailyBenchHours = openingDays.length ? c.weeklyBenchHours / openingDays.length : 0;
+    const shop = { ...c, openingDays };
+    // The shop works the queue ahead of this job from now on, while the instrument is on its way: the job
+    // starts when it has arrived and the waiting work is done, whichever is later.
+    const backlogClearAt = dailyBenchHours > 0 ? addBenchHours(now, c.backlogHours, shop, dailyBenchHours, settings) : null;
+    const plan = (arrival: Date) => {
+      const ready = backlogClearAt && backlogClearAt.getTime() > arrival.getTime() ? backlogClearAt : arrival;
+      const start = dailyBenchHours > 0 ? addBenchHours(ready, 0, shop, dailyBenchHours, settings) : null;
+      return { start, finish: start ? addBenchHours(start, jobHours, shop, dailyBenchHours, settings) : null };
+    };
+    const finishMs = (arrival: Date) => plan(arrival).finish?.getTime() ?? Number.POSITIVE_INFINITY;
+
     if (isOrigin) {
       transport = 'here';
       availableAt = now;
       reasons.push({ kind: 'transport', text: 'Already here: no transfer, no time on the road.' });
     } else {
+      // every way there is weighed: a relay run does not win by being a relay run, only by arriving first
+      const trips: TripOption[] = [];
       const packedBy = new Date(now.getTime() + settings.packingLeadHours * HOUR_MS);
       const run = nextRun(fromOrigin.filter((r) => r.toShopId === c.shopId), packedBy, origin.timeZone);
       if (run) {
-        transport = 'relay_run';
-        availableAt = run.arrivalAt;
-        relayRunId = run.runId;
-        departureAt = run.departureAt;
-        reasons.push({
-          kind: 'transport',
+        trips.push({
+          transport: 'relay_run',
+          arrivalAt: run.arrivalAt,
+          relayRunId: run.runId,
+          departureAt: run.departureAt,
+          distanceKm: null,
           text:
             `Next relay run leaves ${origin.name} ${formatLocal(run.departureAt, origin.timeZone)}, ` +
             `${formatHours(run.transitHours)} h on the road; arrives ${formatLocal(run.arrivalAt, c.timeZone)}.`,
         });
-      } else if (origin.latitude != null && origin.longitude != null && c.latitude != null && c.longitude != null) {
-        transport = 'road';
-        distanceKm = haversineKm(
+      }
+      if (origin.latitude != null && origin.longitude != null && c.latitude != null && c.longitude != null) {
+        const km = haversineKm(
           { latitude: origin.latitude, longitude: origin.longitude },
           { latitude: c.latitude, longitude: c.longitude },
         );
-        const roadHours = distanceKm / settings.roadSpeedKmh;
-        availableAt = new Date(now.getTime() + (settings.handlingHours + roadHours) * HOUR_MS);
-        reasons.push({
-          kind: 'transport',
+        const roadHours = km / settings.roadSpeedKmh;
+        const arrivalAt = new Date(now.getTime() + (settings.handlingHours + roadHours) * HOUR_MS);
+        trips.push({
+          transport: 'road',
+          arrivalAt,
+          relayRunId: null,
+          departureAt: null,
+          distanceKm: km,
           text:
-            `No relay run from ${origin.name}: ${Math.round(distanceKm).toLocaleString('en-US')} km great-circle at ` +
+            `${run ? 'By road' : `No relay run from ${origin.name}`}: ${Math.round(km).toLocaleString('en-US')} km great-circle at ` +
             `${formatHours(settings.roadSpeedKmh)} km/h is ${formatHours(roadHours)} h, plus ${formatHours(settings.handlingHours)} h handling; ` +
-            `arrives about ${formatLocal(availableAt, c.timeZone)}.`,
+            `arrives about ${formatLocal(arrivalAt, c.timeZone)}.`,
         });
+      }
+      // The earliest finish wins; when a relay run finishes as soon as a road trip it is kept: it is booked already.
+      const better = (a: TripOption, b: TripOption) =>
+        finishMs(a.arrivalAt) - finishMs(b.arrivalAt) ||
+        (a.transport === b.transport ? 0 : a.transport === 'relay_run' ? -1 : 1) ||
+        a.arrivalAt.getTime() - b.arrivalAt.getTime();
+      const chosen = trips.reduce<TripOption | null>((best, t) => (!best || better(t, best) < 0 ? t : best), null);
+      if (chosen) {
+        transport = chosen.transport;
+        availableAt = chosen.arrivalAt;
+        relayRunId = chosen.relayRunId;
+        departureAt = chosen.departureAt;
+        distanceKm = chosen.distanceKm;
+        reasons.push({ kind: 'transport', text: chosen.text });
+        for (const other of trips.filter((t) => t !== chosen)) {
+          reasons.push({
+            kind: 'transport',
+            text: other.transport === 'relay_run'
+              ? `The next relay run would arrive ${formatLocal(other.arrivalAt, c.timeZone)}${finishMs(other.arrivalAt) > finishMs(chosen.arrivalAt) ? ' and finish later' : ''}.`
+              : `A road trip would arrive about ${formatLocal(other.arrivalAt, c.timeZone)}${finishMs(other.arrivalAt) > finishMs(chosen.arrivalAt) ? ' and finish later' : ', and finish no sooner'}.`,
+          });
+        }
       } else {
         reasons.push({ kind: 'unavailable', text: `No relay run from ${origin.name}, and no coordinates to estimate a trip.` });
       }
     }
 
-    const openingDays = c.openingDays.filter((d) => d >= 1 && d <= 7);
-    const dailyBenchHours = openingDays.length ? c.weeklyBenchHours / openingDays.length : 0;
     reasons.push({
       kind: 'backlog',
       text:
@@ -224,20 +294,23 @@ export function rankShops(request: RoutingRequest): RoutingResult {
     if (dailyBenchHours <= 0) {
       reasons.push({ kind: 'unavailable', text: 'No bench hours for this skill: the job would not be started.' });
     } else if (availableAt) {
-      // a small tolerance so 40 h at 8 h a day is 5 days, not 6 after floating-point noise
-      benchDays = Math.max(1, Math.ceil((c.backlogHours + jobHours) / dailyBenchHours - 1e-9));
-      benchStart = firstBenchDay(availableAt, { ...c, openingDays }, settings);
-      finishAt = benchStart ? nthBenchDayEnd(benchStart, benchDays, { ...c, openingDays }, settings) : null;
+      ({ start: benchStart, finish: finishAt } = plan(availableAt));
       if (benchStart) {
+        const afterBacklog = c.backlogHours > 0 && backlogClearAt != null && backlogClearAt.getTime() > availableAt.getTime();
+        const when = afterBacklog ? 'once the waiting work is done' : isOrigin ? 'at the next bench hour' : 'once it has arrived';
         reasons.push({
           kind: 'opening',
-          text: `Open ${formatWeekdays(openingDays)} (${zoneLabel(c.timeZone)}): the bench can start ${formatLocal(benchStart, c.timeZone, false)}.`,
+          text:
+            `Open ${formatWeekdays(openingDays)} (${zoneLabel(c.timeZone)})` +
+            (c.backlogHours > 0 && backlogClearAt ? `; working from now, the waiting work is done ${formatLocal(backlogClearAt, c.timeZone)}` : '') +
+            `: this job can start ${formatLocal(benchStart, c.timeZone)}, ${when}.`,
         });
       }
-      if (finishAt) {
+      if (benchStart && finishAt) {
+        benchDays = openingDaysBetween(benchStart, finishAt, shop);
         reasons.push({
           kind: 'finish',
-          text: `${benchDays} bench day${benchDays === 1 ? '' : 's'} for the waiting work and this job: finished by ${formatLocal(finishAt, c.timeZone, false)}.`,
+          text: `${formatHours(jobHours)} h of bench work over ${benchDays} bench day${benchDays === 1 ? '' : 's'}: finished by ${formatLocal(finishAt, c.timeZone)}.`,
         });
       }
     }
@@ -260,6 +333,7 @@ export function rankShops(request: RoutingRequest): RoutingResult {
       benchStartDate: benchStart ? localDate(benchStart, c.timeZone) : null,
       finishDate: finishAt ? localDate(finishAt, c.timeZone) : null,
       finishAt: finishAt?.toISOString() ?? null,
+      backlogClearAt: backlogClearAt?.toISOString() ?? null,
       reasons,
       _arrival: availableAt?.getTime() ?? Number.POSITIVE_INFINITY,
     };

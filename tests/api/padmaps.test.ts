@@ -257,7 +257,7 @@ describe('pad maps API', () => {
   describe('pad rules', () => {
     it('everyone reads the rules; the defaults are those of the issue', async () => {
       const res = await request(app).get('/api/pad-rules').set('Cookie', cookies.techA).expect(200);
-      expect(res.body.rules).toEqual({ selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, repadBaseHours: 1.5, repadHoursPerKey: 0.25 });
+      expect(res.body.rules).toEqual({ selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, repadBaseHours: 1.5, repadHoursPerKey: 0.25, maxRadialClearanceMm: 1 });
     });
 
     it('only the owner changes them, within bounds, and the next save follows them', async () => {

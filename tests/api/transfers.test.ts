@@ -36,8 +36,12 @@ describe('transfers API on the demo network', () => {
     expect(res.body.ranked.map((r: { shopName: string }) => r.shopName)).toEqual(['Harborline Portland', 'Harborline Chicago']);
     expect(res.body.recommendedShopId).toBe(shop.PDX.id);
     const [portland, chicago] = res.body.ranked;
-    expect(portland.transport).toBe('relay_run');
-    expect(portland.reasons[0].text).toMatch(/^Next relay run leaves Harborline Seattle (Tue|Thu) \d{1,2} \w{3} \d{4}, \d\d:\d\d P[SD]T, /);
+    // the demo's Seattle → Portland run; on some days of the week a road trip finishes sooner, and then the run is
+    // named as the slower way
+    const portlandTrips = portland.reasons.filter((r: { kind: string }) => r.kind === 'transport').map((r: { text: string }) => r.text);
+    if (portland.transport === 'relay_run') expect(portlandTrips[0]).toMatch(/^Next relay run leaves Harborline Seattle (Tue|Thu) \d{1,2} \w{3} \d{4}, \d\d:\d\d P[SD]T, /);
+    else expect(portlandTrips).toContainEqual(expect.stringMatching(/^The next relay run would arrive (Tue|Wed|Thu|Fri) .* and finish later\.$/));
+    expect(portland.transport).toMatch(/^(relay_run|road)$/);
     expect(chicago.transport).toBe('road');
     expect(chicago.reasons[0].text).toMatch(/No relay run from Harborline Seattle: 2,7\d\d km great-circle at 60 km\/h/);
     expect(portland.reasons.some((r: { text: string }) => /This job: 18 h/.test(r.text))).toBe(true);

@@ -21,9 +21,10 @@ describe('haversine distance against published sources', () => {
 
   it('uses the IUGG mean radius of GRS 80 by default', () => {
     expect(IUGG_MEAN_EARTH_RADIUS_KM).toBe(6371.0088);
-    // the same arc, scaled by the radius: 2886.444 × 6371.0088 / 6371.0
-    const km = haversineKm({ latitude: 36.12, longitude: -86.67 }, { latitude: 33.94, longitude: -118.4 });
-    expect(km).toBeCloseTo((2886.444 * 6371.0088) / 6371.0, 2);
+    // Arcs whose angle is known without the formula, worked by hand with R = 6371.0088 km:
+    // a quarter of the equator is R × π/2 = 10 007.557 km; one degree of a meridian is R × π/180 = 111.195 km.
+    expect(haversineKm({ latitude: 0, longitude: 0 }, { latitude: 0, longitude: 90 })).toBeCloseTo(10007.557, 2);
+    expect(haversineKm({ latitude: 45, longitude: 7 }, { latitude: 46, longitude: 7 })).toBeCloseTo(111.195, 2);
   });
 
   const pairs: Array<[string, [number, number], [number, number]]> = [

@@ -30,7 +30,7 @@ import {
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
-import { addOpeningDays, formatCalendarDate, isOverdue, localDate } from '../../../shared/jobs/promised-date.js';
+import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {
   allowedMoves,
   checkMove,
@@ -398,6 +398,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       name: shop.name,
       timeZone: shop.timeZone,
       openingDays: shop.openingDays,
+      country: shop.country ?? null,
+      region: shop.region ?? null,
       laborRateCents: shop.laborRateCents,
       taxRateBasisPoints: shop.taxRateBasisPoints,
     },
@@ -462,7 +464,15 @@ export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): 
       changes.requiredSkillId = input.requiredSkillId;
     }
     let promise: string | null | undefined;
-    if (input.promiseInOpeningDays !== undefined) promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+    if (input.promiseInOpeningDays !== undefined) {
+      try {
+        promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+      } catch (err) {
+        // a shop row with no opening day or an unknown time zone: say so instead of counting forever
+        if (err instanceof ShopCalendarError) throw conflict(err.message, { promiseInOpeningDays: err.message });
+        throw err;
+      }
+    }
     else if (input.promisedOn !== undefined) promise = input.promisedOn;
     if (promise !== undefined && promise !== job.promisedOn) {
       changes.promisedOn = promise;

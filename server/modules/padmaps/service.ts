@@ -160,7 +160,7 @@ export async function padMapSuggestions(
     entries: m.entries as unknown as EarlierMap['entries'],
     results: (m.results ?? []) as unknown as EarlierMap['results'],
   }));
-  return { ...base, ...suggestFromMaps(earlier) };
+  return { ...base, ...suggestFromMaps(earlier, await padCatalogFor(actor.networkId)) };
 }
 
 // ---------------------------------------------------------------------------------------------

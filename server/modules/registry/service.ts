@@ -10,6 +10,7 @@ import { AppError, badRequest, forbidden, notFound, zodFields } from '../../lib/
 import { findJobOpenedBy, openJob } from '../jobs/service.js';
 import { INSTRUMENT_FAMILY_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind } from '../../../shared/domain.js';
 import { normalizeMaker, normalizeSerial } from '../../../shared/serial.js';
+import { osaDistance, singleEditVariants } from '../../../shared/serial-distance.js';
 import {
   INSTRUMENT_STATUS_LABELS,
   importRowSchema,
@@ -170,6 +171,8 @@ function customerView(actor: CustomerViewer, c: CustomerRow, served: string[]): 
  * in the middle of a serial of n characters leaves (n-2) of its n+1 trigrams, a similarity of
  * (n-2)/(n+4): 0.4 at 6 characters, 0.45 at 7, 0.57 at 10. Shorter text is still being typed; the
  * prefix and fragment kinds answer it, and a near miss of four letters would match half the registry.
+ * Worked from pg_trgm's documented trigram counting (two spaces before, one after each word); the 6-character
+ * minimum is common practice for fuzzy lookups (shorter strings have too few trigrams to tell apart).
  */
 export function similarityThreshold(length: number): number | null {
   if (length < 6) return null;
@@ -177,7 +180,10 @@ export function similarityThreshold(length: number): number | null {
   return 0.45;
 }
 
-/** Near misses are the fallback: when the literal kinds found this many, or any exact hit, they are enough. */
+/** Serials this long or longer get near misses (one edit away, and trigram look-alikes); shorter ones match too much. */
+const NEAR_MISS_MIN_LENGTH = 6;
+
+/** Trigram look-alikes are the fallback: when the literal kinds found this many, or any exact hit, they are enough (a working choice, invented). */
 const ENOUGH_LITERAL_HITS = 3;
 
 
@@ -188,7 +194,8 @@ interface HitRow {
   tier: number | null; score: number | null;
 }
 
-const TIER_MATCH: MatchKind[] = ['exact', 'asset_tag', 'prefix', 'contains', 'similar'];
+// tier 4: one edit away; tier 5: trigram look-alikes further off. Both are near misses to the person searching.
+const TIER_MATCH: MatchKind[] = ['exact', 'asset_tag', 'prefix', 'contains', 'similar', 'similar'];
 const escapeLike = (s: string) => s.replace(/[\\%_]/g, '\\$&');
 
 const HIT_COLUMNS = `
@@ -218,7 +225,7 @@ const HIT_JOINS = `
  */
 export async function searchInstruments(actor: Actor, input: InstrumentSearch, maxRows?: number): Promise<InstrumentHit[]> {
   const literal = buildSearchQuery(actor, input, maxRows, { nearMisses: false });
-  const first = (await sequelize.query<HitRow>(literal.sql, { replacements: literal.replacements, type: QueryTypes.SELECT })).map(toHit);
+  const first = rankNearMisses(input.q, (await sequelize.query<HitRow>(literal.sql, { replacements: literal.replacements, type: QueryTypes.SELECT })).map(toHit));
   const exact = first.some((h) => h.match === 'exact' || h.match === 'asset_tag');
   const fuzzy = buildSearchQuery(actor, input, maxRows, { nearMisses: true });
   if (exact || first.length >= ENOUGH_LITERAL_HITS || !fuzzy.threshold) return first;
@@ -229,7 +236,21 @@ export async function searchInstruments(actor: Actor, input: InstrumentSearch, m
     });
     return sequelize.query<HitRow>(fuzzy.sql, { replacements: fuzzy.replacements, type: QueryTypes.SELECT, transaction });
   });
-  return rows.map(toHit);
+  return rankNearMisses(input.q, rows.map(toHit));
+}
+
+/**
+ * Near misses ordered by edits from what was typed (optimal string alignment: a swapped pair is one edit),
+ * then by trigram similarity; the literal kinds (exact, tag, prefix, contains) keep their order ahead of them.
+ */
+function rankNearMisses(typed: string, hits: InstrumentHit[]): InstrumentHit[] {
+  const q = normalizeSerial(typed);
+  const edits = new Map(hits.filter((h) => h.match === 'similar').map((h) => [h.id, osaDistance(q, h.serialNormalized)]));
+  const literal = hits.filter((h) => h.match !== 'similar');
+  const similar = hits
+    .filter((h) => h.match === 'similar')
+    .sort((a, b) => edits.get(a.id)! - edits.get(b.id)! || b.score - a.score || a.serialNormalized.localeCompare(b.serialNormalized));
+  return [...literal, ...similar];
 }
 
 /** The search as SQL (exported for the benchmark, which EXPLAINs it). */
@@ -261,6 +282,10 @@ export function buildSearchQuery(actor: Actor, input: InstrumentSearch, maxRows?
   }
 
   const threshold = options.nearMisses ? similarityThreshold(q.length) : null;
+  // one edit away (swap of neighbours, a character changed, dropped or added): exact lookups in the serial index,
+  // always run for 6+ characters since they are cheap and a swap keeps too few trigrams for the `%` branch
+  const variants = q.length >= NEAR_MISS_MIN_LENGTH ? singleEditVariants(q) : [];
+  if (variants.length) replacements.variants = variants;
   const branches = [
     q ? `(select i.id, 0 as tier from instruments i where i.network_id = :networkId and i.serial_normalized = :q${and} limit :limit)` : '',
     raw ? `(select i.id, 1 from instruments i where i.network_id = :networkId and i.asset_tag = :tag${and} limit 1)` : '',
@@ -268,7 +293,9 @@ export function buildSearchQuery(actor: Actor, input: InstrumentSearch, maxRows?
            order by i.serial_normalized limit :limit)` : '',
     q.length >= 3 ? `(select i.id, 3 from instruments i where i.network_id = :networkId and i.serial_normalized like :contains
            and i.serial_normalized not like :prefix${and} limit :limit)` : '',
-    threshold ? `(select i.id, 4 from instruments i where i.network_id = :networkId and i.serial_normalized % :q${and}
+    variants.length ? `(select i.id, 4 from instruments i where i.network_id = :networkId and i.serial_normalized in (:variants)${and}
+           limit :limit)` : '',
+    threshold ? `(select i.id, 5 from instruments i where i.network_id = :networkId and i.serial_normalized % :q${and}
            order by i.serial_normalized <-> :q limit :limit)` : '',
   ].filter(Boolean);
 

@@ -304,11 +304,16 @@ export async function turnaround(scope: Scope): Promise<TurnaroundWindowReport[]
  */
 export async function weeklyIntake(scope: Scope): Promise<WeeklyIntakeRow[]> {
   const rows = await select<{ week_start: string; shop_id: string | null; n: string | null }>(
-    `with weeks as (
-       select generate_series(
-                date_trunc('week', cast(:asOf as timestamptz) at time zone 'UTC') - make_interval(weeks => :weeks - 1),
-                date_trunc('week', cast(:asOf as timestamptz) at time zone 'UTC'),
-                interval '1 week')::date as week_start
+    // weeks are the shops' own local weeks, as the jobs are counted: the latest local week of any shop in the
+    // report ends the series (a shop east of UTC may already be in next week while UTC is not)
+    `with bounds as (
+       select coalesce(max(date_trunc('week', cast(:asOf as timestamptz) at time zone s.time_zone)),
+                       date_trunc('week', cast(:asOf as timestamptz) at time zone 'UTC')) as last_week
+         from shops s
+        where s.network_id = :networkId and s.id in (:shopIds)
+     ), weeks as (
+       select generate_series(b.last_week - make_interval(weeks => :weeks - 1), b.last_week, interval '1 week')::date as week_start
+         from bounds b
      ), intake as (
        select date_trunc('week', j.opened_at at time zone s.time_zone)::date as week_start, j.shop_id, count(*) as n
          from jobs j

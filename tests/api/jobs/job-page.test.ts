@@ -1,12 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { buildApp } from '../../../server/app.js';
-import { HistoryEvent, Instrument, Job } from '../../../server/lib/models.js';
+import { HistoryEvent, Instrument, Job, Shop } from '../../../server/lib/models.js';
 import { closeServerResources } from '../../helpers/close.js';
 import { makeInstrumentWithJob, makeNetwork, makeShop, makeUser } from '../../helpers/factories.js';
 import { makeBenchWorld } from '../../helpers/bench-world.js';
 import { signIn } from '../../helpers/sign-in.js';
-import { addOpeningDays } from '../../../shared/jobs/promised-date.js';
 import type { JobDetail } from '../../../shared/jobs/dto.js';
 import type { JobStage } from '../../../shared/domain.js';
 
@@ -200,12 +199,22 @@ describe('the job page API', () => {
 
   it('sets the promise in the shop’s opening days, assigns a technician of the shop, and notes both in the history', async () => {
     const { job, instrument } = await newJob('approved');
+    // ZZ is an ISO 3166 user-assigned code with no holiday calendar: weekdays only, whatever today is
+    // (public holidays are checked against a published calendar in tests/reference/holidays.test.ts)
+    await Shop.update({ country: 'ZZ' }, { where: { networkId: w.network.id, id: w.shop.id } });
     const res = await request(app)
       .patch(`/api/jobs/${job.id}`)
       .set('Cookie', w.cookies.front_desk)
       .send({ promiseInOpeningDays: 5, assignedUserId: w.people.technician.id, conditionNotes: 'Bell rim dented; case latch broken.' })
       .expect(200);
-    expect(res.body.job.promisedOn).toBe(addOpeningDays(new Date(), 5, { timeZone: 'America/Denver', openingDays: [1, 2, 3, 4, 5] }));
+    // Worked by hand, not with the code's own counting: the shop opens Mon–Fri in Denver, and today's date does not
+    // count, so 5 opening days later is the same weekday a week on from Mon–Fri (+7 days), the Friday after a
+    // Saturday (+6) and the Friday after a Sunday (+5).
+    const [y, m, d] = new Intl.DateTimeFormat('en-CA', { timeZone: 'America/Denver' }).format(new Date()).split('-').map(Number);
+    const today = new Date(Date.UTC(y, m - 1, d));
+    const plus = { 0: 5, 6: 6 }[today.getUTCDay()] ?? 7;
+    expect(res.body.job.promisedOn).toBe(new Date(today.getTime() + plus * 86_400_000).toISOString().slice(0, 10));
+    await Shop.update({ country: 'US' }, { where: { networkId: w.network.id, id: w.shop.id } });
     expect(res.body.job.assignee.id).toBe(w.people.technician.id);
     expect(res.body.job.conditionNotes).toBe('Bell rim dented; case latch broken.');
     const notNow = await request(app)
@@ -216,6 +225,22 @@ describe('the job page API', () => {
     expect(notNow.body.error.fields.assignedUserId).toMatch(/technician/);
     const note = await HistoryEvent.findOne({ where: { networkId: w.network.id, instrumentId: instrument.id, kind: 'job_updated' } });
     expect(note!.summary).toMatch(/assigned to Tech .*promised for/);
+  });
+
+  it('a shop row with an unknown time zone or no opening days gets a clear 409, not a request that never ends', async () => {
+    const shop = await makeShop(w.network.id);
+    const owner = await makeUser(w.network.id, [{ shopId: shop.id, role: 'front_desk' }]);
+    const cookie = await signIn(app, owner.email);
+    const { job } = await makeInstrumentWithJob(w.network.id, shop.id, owner.id, { stage: 'approved' });
+    // written straight to the row, as a shop saved before the Shops screen checked its time zone could be
+    await shop.update({ timeZone: 'Mars/Olympus_Mons' }, { validate: false });
+    const res = await request(app).patch(`/api/jobs/${job.id}`).set('Cookie', cookie).send({ promiseInOpeningDays: 3 }).timeout(10_000).expect(409);
+    expect(res.body.error.message).toMatch(/"Mars\/Olympus_Mons" is not a known time zone/);
+    expect(res.body.error.fields.promiseInOpeningDays).toMatch(/Shops screen/);
+    await shop.update({ timeZone: 'America/Denver', openingDays: [] }, { validate: false });
+    const none = await request(app).patch(`/api/jobs/${job.id}`).set('Cookie', cookie).send({ promiseInOpeningDays: 3 }).timeout(10_000).expect(409);
+    expect(none.body.error.message).toMatch(/no opening days/);
+    expect((await Job.findByPk(job.id))!.promisedOn).toBeNull();
   });
 
   it('keeps a time log per technician; only the author or a manager removes an entry', async () => {

@@ -71,6 +71,10 @@ describe('GET /api/instruments/search', () => {
     expect(serials[0]).toBe('AB-104 233');
     expect(res.body.results[1]).toMatchObject({ serial: 'AB1042330', match: 'prefix' });
     expect(res.body.results.find((r: { serial: string }) => r.serial === 'XQ-AB 104 233')).toMatchObject({ match: 'contains' });
+    // the near miss: AB-104 234 is one digit away, listed after the literal matches
+    const kinds = res.body.results.map((r: { match: string }) => r.match);
+    expect(res.body.results.at(-1)).toMatchObject({ serial: 'AB-104 234', match: 'similar' });
+    expect(kinds).toEqual(['exact', 'prefix', 'contains', 'similar']);
     // the other network's AB104233 is not there
     expect(res.body.results.filter((r: { serialNormalized: string }) => r.serialNormalized === 'AB104233')).toHaveLength(1);
   });

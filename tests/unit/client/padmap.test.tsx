@@ -40,7 +40,7 @@ function workspace(over: Partial<PadMapWorkspace> = {}): PadMapWorkspace {
     defaultServiceId: 'svc-1',
     padMap: null,
     previous: null,
-    suggestions: { family: 'alto_saxophone', maker: 'Quillfield', model: 'QA-2', basedOnMaps: 2, keys: { low_c: { keyId: 'low_c', basedOn: 2, cupDiameterMm: 30.5, cupDepthMm: 4, rimDiameterMm: null, padDiameterMm: 30, padKind: 'self_leveling' } } },
+    suggestions: { family: 'alto_saxophone', maker: 'Quillfield', model: 'QA-2', basedOnMaps: 2, keys: { low_c: { keyId: 'low_c', basedOn: 2, cupDiameterMm: 30.5, cupDepthMm: 4, rimDiameterMm: null, padDiameterMm: 30, padKind: 'self_leveling', padByKind: { self_leveling: 30, glued: null } } } },
     stock: [{ partId: 'self_leveling-30', onHand: 1, reserved: 0, reservedForJob: 0 }],
     parts: [],
     can: { edit: true, requestParts: true },

@@ -24,7 +24,13 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
 
   const dayCount = /^\d{1,3}$/.test(days) ? Number(days) : null;
   // the same shared rule the server applies, so the preview is the date that will be saved
-  const preview = dayCount !== null ? addOpeningDays(new Date(), dayCount, shop) : null;
+  let preview: string | null = null;
+  let calendarProblem: string | null = null;
+  try {
+    preview = dayCount !== null ? addOpeningDays(new Date(), dayCount, shop) : null;
+  } catch (err) {
+    calendarProblem = err instanceof Error ? err.message : 'The shop’s calendar cannot be read.';
+  }
 
   const submit = (event: FormEvent) => {
     event.preventDefault();
@@ -79,7 +85,7 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
         {promiseMode === 'days' ? (
           <Field
             label="Opening days from today"
-            error={errors.promiseInOpeningDays}
+            error={errors.promiseInOpeningDays ?? calendarProblem ?? undefined}
             hint={
               preview
                 ? `Promise: ${formatCalendarDate(preview)}`

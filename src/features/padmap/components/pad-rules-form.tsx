@@ -16,7 +16,8 @@ const FIELDS: Array<{ name: FieldName; label: string; unit: string; why: string 
   { name: 'minRimOverlapMm', label: 'Seal: minimum overlap of the tone-hole rim per side', unit: 'mm', why: 'Below it the map warns; a pad that does not cover the rim is an error. Default 0.5 mm (from memory).' },
   { name: 'stemHeightsMm', label: 'Mounting-stem heights in stock', unit: 'mm, comma separated', why: 'The lowest that lifts the pad face enough is chosen; one step taller for a sunken floor. Default 0.5, 1.0, 1.5 mm (common practice).' },
   { name: 'minProtrusionMm', label: 'Pad face above the cup rim, at least', unit: 'mm', why: 'Stem + pad thickness − cup depth. Default 0.5 mm (from memory).' },
-  { name: 'selfLevelingLaborFactor', label: 'Labor factor for self-leveling pads', unit: '× hours per key', why: 'A self-leveling key takes this share of a glued key’s time. Default 0.5 (common practice).' },
+  { name: 'maxRadialClearanceMm', label: 'Any pad: maximum clearance per side', unit: 'mm', why: 'A pad looser than this may not stay centred over the tone hole: the map warns, and says “no pad large enough” when the catalog’s largest pad is that loose. Default 1.0 mm (common practice).' },
+  { name: 'selfLevelingLaborFactor', label: 'Labor factor for self-leveling pads', unit: '× hours per key', why: 'A self-leveling key takes this share of a glued key’s time. Default 0.5: a Benchrelay pricing default for you to set, not a trade figure.' },
   { name: 'repadBaseHours', label: 'Repad labor: base hours', unit: 'h', why: 'Apart, clean, together, regulate and leak-test, whatever the number of keys. Default 1.5 h: a Benchrelay pricing default for you to set.' },
   { name: 'repadHoursPerKey', label: 'Repad labor: hours per key repadded', unit: 'h', why: 'Added for each glued key that gets a new pad. Default 0.25 h: a Benchrelay pricing default for you to set.' },
 ];
@@ -30,6 +31,7 @@ const asText = (rules: PadRules): Record<FieldName, string> => ({
   selfLevelingLaborFactor: String(rules.selfLevelingLaborFactor),
   repadBaseHours: String(rules.repadBaseHours),
   repadHoursPerKey: String(rules.repadHoursPerKey),
+  maxRadialClearanceMm: String(rules.maxRadialClearanceMm),
 });
 
 const toNumber = (text: string) => (text.trim() === '' ? Number.NaN : Number(text.trim().replace(',', '.')));
@@ -44,6 +46,7 @@ function fromText(text: Record<FieldName, string>) {
     selfLevelingLaborFactor: toNumber(text.selfLevelingLaborFactor),
     repadBaseHours: toNumber(text.repadBaseHours),
     repadHoursPerKey: toNumber(text.repadHoursPerKey),
+    maxRadialClearanceMm: toNumber(text.maxRadialClearanceMm),
   };
 }
 

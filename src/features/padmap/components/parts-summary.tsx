@@ -117,7 +117,11 @@ export function PartsSummary(props: PartsSummaryProps) {
             ))}
           </select>
         </label>
-        {labor ? (
+        {labor && labor.selfLevelingPads + labor.gluedPads === 0 ? (
+          <p className="text-sm text-ink-800" data-labor>
+            <span className="text-base font-semibold text-ink-950">0 h</span> estimated: no pad chosen yet ({labor.standardHours} h in the catalog for a full repad).
+          </p>
+        ) : labor ? (
           <p className="text-sm text-ink-800" data-labor>
             <span className="text-base font-semibold text-ink-950">{labor.hours} h</span> estimated for {labor.keysRepadded}{' '}
             {labor.keysRepadded === 1 ? 'key' : 'keys'} repadded: {labor.baseHours} h base + {labor.perKeyHours} h per key

@@ -6,6 +6,7 @@ import {
   isOverdue,
   localDate,
   openingDaysUntil,
+  ShopCalendarError,
 } from '../../../../shared/jobs/promised-date.js';
 
 /**
@@ -101,6 +102,15 @@ describe('helpers', () => {
     expect(isOverdue('2026-03-09', 'on_bench', justAfterMidnightInChicago, seattle.timeZone)).toBe(false);
     expect(isOverdue('2026-03-09', 'ready', justAfterMidnightInChicago, chicago.timeZone)).toBe(false);
     expect(isOverdue(null, 'on_bench', justAfterMidnightInChicago, chicago.timeZone)).toBe(false);
+  });
+
+  it('refuses an unknown time zone or no opening days with a clear error instead of counting forever', () => {
+    const mars = { timeZone: 'Mars/Olympus_Mons', openingDays: MON_FRI };
+    expect(() => addOpeningDays(new Date('2026-03-02T12:00:00Z'), 3, mars)).toThrow(ShopCalendarError);
+    expect(() => addOpeningDays('2026-03-02', 0, mars)).toThrow(/"Mars\/Olympus_Mons" is not a known time zone/);
+    expect(() => openingDaysUntil(new Date('2026-03-02T12:00:00Z'), '2026-03-09', mars)).toThrow(ShopCalendarError);
+    expect(() => addOpeningDays('2026-03-02', 2, { timeZone: 'America/Chicago', openingDays: [] })).toThrow(/no opening days/);
+    expect(() => addOpeningDays('2026-03-02', 2, { timeZone: 'America/Chicago', openingDays: [0, 8] })).toThrow(ShopCalendarError);
   });
 
   it('refuses a calendar without opening days and silly counts', () => {

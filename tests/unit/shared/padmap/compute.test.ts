@@ -43,6 +43,53 @@ describe('self-leveling pad diameter (common practice: 0.15 mm clearance per sid
   });
 });
 
+describe('a pad missing from the catalog is named by its size', () => {
+  it('shows quarter-millimetre sizes with two decimals, others with one', () => {
+    const quarter = { self_leveling: [{ diameterMm: 30.25, thicknessMm: 3.6 }, { diameterMm: 30, thicknessMm: 3.6 }], glued: [] };
+    // 30.6 mm cup: limit 30.3 mm → 30.25 mm; 30.4 mm cup: limit 30.1 mm → 30.0 mm. No names in this catalog.
+    const result = computePadMap({
+      entries: [key({ keyId: 'a', cupDiameterMm: 30.6, rimDiameterMm: null }), key({ keyId: 'b', cupDiameterMm: 30.4, rimDiameterMm: null })],
+      catalog: quarter, rules,
+    });
+    expect(result.parts.map((p) => p.name)).toEqual(['Self-leveling pad 30.0 mm', 'Self-leveling pad 30.25 mm']);
+  });
+});
+
+describe('a cup larger than every pad (common practice: at most 1.0 mm play per side)', () => {
+  // The fixture catalog runs 6.0 … 58.0 mm in 0.5 mm steps, in both kinds.
+  it('a 70 mm cup is "no pad large enough", not the 58 mm pad and "ok"', () => {
+    // self-leveling limit 70 − 2 × 0.15 = 69.7 mm → 58.0 mm would leave (70 − 58) / 2 = 6 mm per side > 1.0 mm
+    const r = computeKey(key({ cupDiameterMm: 70, rimDiameterMm: 64 }), catalog, rules);
+    expect(r.status).toBe('error');
+    expect(r.padDiameterMm).toBeNull();
+    expect(r.findings).toEqual([expect.objectContaining({ code: 'no_pad_large_enough', severity: 'error', field: 'cupDiameter' })]);
+    expect(r.findings[0].message).toMatch(/^No pad large enough: .*58\.00 mm.*6\.00 mm per side.*1\.00 mm/);
+    expect(computeKey(key({ padKind: 'glued', cupDiameterMm: 70, rimDiameterMm: null }), catalog, rules).findings.map((f) => f.code))
+      .toEqual(['no_pad_large_enough']);
+  });
+
+  it('at the limit: a 60.0 mm cup takes 58.0 mm (exactly 1.0 mm per side); 60.1 mm does not', () => {
+    const atLimit = computeKey(key({ cupDiameterMm: 60, rimDiameterMm: null }), catalog, rules);
+    expect(atLimit.padDiameterMm).toBe(58);
+    expect(atLimit.radialClearanceMm).toBe(1);
+    expect(atLimit.findings.map((f) => f.code)).toEqual(['rim_not_measured']);
+    expect(codes(key({ cupDiameterMm: 60.1, rimDiameterMm: null }))).toEqual(['no_pad_large_enough']);
+    // the owner allows 1.5 mm: (61 − 58) / 2 = 1.5 mm is within it again
+    expect(computeKey(key({ cupDiameterMm: 61, rimDiameterMm: null }), catalog, { ...rules, maxRadialClearanceMm: 1.5 }).padDiameterMm).toBe(58);
+  });
+
+  it('a gap in the catalog keeps the pad but warns that it is loose', () => {
+    const gappy = { self_leveling: [{ diameterMm: 28, thicknessMm: 3.6 }, { diameterMm: 31, thicknessMm: 3.6 }], glued: [] };
+    // 30.5 mm cup: limit 30.2 mm → 28 mm, (30.5 − 28) / 2 = 1.25 mm per side > 1.0 mm; 31 mm would not fit
+    const r = computeKey(key({ cupDiameterMm: 30.5, cupDepthMm: 4, rimDiameterMm: 26 }), gappy, rules);
+    expect(r.padDiameterMm).toBe(28);
+    expect(r.radialClearanceMm).toBe(1.25);
+    expect(r.status).toBe('warning');
+    expect(r.findings.map((f) => [f.code, f.severity])).toEqual([['clearance_large', 'warning']]);
+    expect(r.findings[0].message).toMatch(/1\.25 mm per side.*nothing between 28\.00 mm and 31\.00 mm/);
+  });
+});
+
 describe('glued pad diameter (snug; owner offset −0.5 … +0.5 mm, common practice differs)', () => {
   const glued = (cup: number, offset: number) =>
     computeKey(key({ padKind: 'glued', cupDiameterMm: cup, rimDiameterMm: null }), catalog, { ...rules, gluedOffsetMm: offset });
@@ -165,7 +212,7 @@ describe('the whole instrument', () => {
   });
 
   // Base 1.5 h and 0.25 h per glued key are Benchrelay pricing defaults the owner sets; the 0.5 factor
-  // for a self-leveling key is common practice. Worked by hand below.
+  // for a self-leveling key is one too. Worked by hand below.
   it('grows with the keys repadded: base + per key × keys, self-leveling keys at the factor', () => {
     const result = computePadMap({ entries, catalog, rules, repadHours: 6 });
     // 3 self-leveling + 1 glued: 1.5 + 0.25 × (1 + 3 × 0.5) = 1.5 + 0.625 = 2.125 → 2.13 h (half up)
@@ -178,6 +225,9 @@ describe('the whole instrument', () => {
     expect(laborEstimate(allSelfLeveling, 6, { ...rules, selfLevelingLaborFactor: 0.8 })?.hours).toBe(2.1);
     // nothing repadded: no labor
     expect(laborEstimate([], 6, rules)?.hours).toBe(0);
+    const noPad = computePadMap({ entries: [key({ cupDiameterMm: 5, rimDiameterMm: null })], catalog, rules, repadHours: 6 });
+    expect(noPad.keys[0].status).toBe('error'); // a 5 mm cup is smaller than the smallest (6 mm) pad
+    expect(noPad.labor?.hours).toBe(0);
     expect(computePadMap({ entries, catalog, rules }).labor).toBeNull();
   });
 

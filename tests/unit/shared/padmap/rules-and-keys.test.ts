@@ -3,10 +3,22 @@ import { DEFAULT_PAD_RULES, padRulesSchema, resolvePadRules } from '../../../../
 import { hasPadKeys, keyName, PAD_KEYS_BY_FAMILY, padKeysFor } from '../../../../shared/padmap/keys.js';
 
 describe('pad rules', () => {
-  it('defaults: 0.15 mm clearance, 0.5 mm overlap and protrusion, stems 0.5/1.0/1.5 mm, factor 0.5', () => {
-    expect(DEFAULT_PAD_RULES).toEqual({
-      selfLevelingMinClearanceMm: 0.15, gluedOffsetMm: 0, minRimOverlapMm: 0.5, stemHeightsMm: [0.5, 1, 1.5], minProtrusionMm: 0.5, selfLevelingLaborFactor: 0.5, repadBaseHours: 1.5, repadHoursPerKey: 0.25,
-    });
+  // Each default with where it comes from, written out here rather than copied from the code.
+  const expectedDefaults = {
+    selfLevelingMinClearanceMm: 0.15, // common practice: a self-leveling pad must be able to tilt in its cup
+    gluedOffsetMm: 0, // common practice: a glued pad fits snug, the largest not over the cup
+    minRimOverlapMm: 0.5, // from memory
+    stemHeightsMm: [0.5, 1, 1.5], // common practice: the stems a bench stocks
+    minProtrusionMm: 0.5, // from memory
+    selfLevelingLaborFactor: 0.5, // a Benchrelay pricing default the owner sets, not a trade figure
+    repadBaseHours: 1.5, // a Benchrelay pricing default the owner sets
+    repadHoursPerKey: 0.25, // a Benchrelay pricing default the owner sets
+    maxRadialClearanceMm: 1, // common practice: more play than 1 mm a side is the wrong pad size
+  };
+
+  it('a network that set nothing gets the defaults, each with its source', () => {
+    expect(resolvePadRules(undefined)).toEqual(expectedDefaults);
+    expect(resolvePadRules({ gluedOffsetMm: -0.5, minRimOverlapMm: 'lots' })).toEqual({ ...expectedDefaults, gluedOffsetMm: -0.5 });
   });
 
   it('keeps the glued offset within −0.5 … +0.5 mm and sorts the stems', () => {
@@ -18,9 +30,16 @@ describe('pad rules', () => {
     expect(padRulesSchema.safeParse({ ...base, stemHeightsMm: [1, 1] }).success).toBe(false);
   });
 
+  it('the maximum clearance is optional (1.0 mm) and must exceed the self-leveling minimum', () => {
+    const { maxRadialClearanceMm: _omitted, ...older } = DEFAULT_PAD_RULES;
+    expect(padRulesSchema.parse(older).maxRadialClearanceMm).toBe(1);
+    const tight = padRulesSchema.safeParse({ ...DEFAULT_PAD_RULES, selfLevelingMinClearanceMm: 0.5, maxRadialClearanceMm: 0.4 });
+    expect(tight.success).toBe(false);
+    expect(tight.error?.issues[0].path).toEqual(['maxRadialClearanceMm']);
+  });
+
   it('stored rules are merged over the defaults, field by field', () => {
-    expect(resolvePadRules(undefined)).toEqual(DEFAULT_PAD_RULES);
-    expect(resolvePadRules({ gluedOffsetMm: -0.5, minRimOverlapMm: 'lots' })).toEqual({ ...DEFAULT_PAD_RULES, gluedOffsetMm: -0.5 });
+    expect(resolvePadRules({ stemHeightsMm: [2, 1], selfLevelingLaborFactor: 9 })).toEqual({ ...expectedDefaults, stemHeightsMm: [1, 2] });
   });
 });
 

@@ -11,6 +11,10 @@ describe('parseLength: caliper readings as technicians type them', () => {
     ['3.05cm', 'mm', 30.5, 'mm'],
     ['1.200in', 'mm', 30.48, 'in'],
     ['1.2"', 'mm', 30.48, 'in'],
+    ['1.2\u201D', 'mm', 30.48, 'in'], // the curly closing quote a phone keyboard types for "
+    ['1.2 \u201D', 'mm', 30.48, 'in'],
+    ['1.2\u2033', 'mm', 30.48, 'in'], // double prime, the typographic inch mark
+    ['1.2\u2019\u2019', 'mm', 30.48, 'in'], // two curly apostrophes
     ['1.2 in', 'mm', 30.48, 'in'],
     ['1.2 inches', 'mm', 30.48, 'in'],
     ['1.2', 'in', 30.48, 'in'],

@@ -22,8 +22,11 @@ describe('CSV (RFC 4180)', () => {
     expect(csvField('=HYPERLINK("http://x","y")')).toBe(`"'=HYPERLINK(""http://x"",""y"")"`);
     expect(csvField('+1 206 555 0141')).toBe("'+1 206 555 0141");
     expect(csvField('@sum')).toBe("'@sum");
-    expect(csvField('-5')).toBe("'-5");
+    expect(csvField('-5+A1')).toBe("'-5+A1");
+    expect(csvField('-2-3')).toBe("'-2-3");
     expect(csvField(-5)).toBe('-5');
+    // a credit written as a decimal amount is a number, not a formula: kept as it is
+    expect(csvField('-12.50')).toBe('-12.50');
   });
 
   it('joins rows with CRLF and ends with one', () => {

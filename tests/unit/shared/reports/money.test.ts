@@ -26,6 +26,25 @@ describe('invoice arithmetic in integer cents (the estimate’s rule)', () => {
     expect(invoiceTotals([{ kind: 'labor', hours: 0.29, rateCents: 100 }], 0).lineTotalsCents).toEqual([29]);
   });
 
+  it('a credit line (negative unit price) takes off its amount, rounded half away from zero', () => {
+    const t = invoiceTotals(
+      [
+        { kind: 'labor', hours: '2.00', rateCents: 9000 }, // 18 000
+        { kind: 'part', quantity: '1.00', unitPriceCents: 2500 }, // 2 500
+        { kind: 'part', quantity: '0.50', unitPriceCents: -1001 }, // −500.5 → −501 (away from zero)
+      ],
+      1025,
+    );
+    // subtotal 18 000 + 2 500 − 501 = 19 999; 10.25 % tax = 2 049.8975 → 2 050; total 22 049
+    expect(t).toEqual({ lineTotalsCents: [18000, 2500, -501], subtotalCents: 19999, taxCents: 2050, totalCents: 22049 });
+  });
+
+  it('credits larger than the charges give tax back: −$10.00 at 10.25 % is −$1.025 → −$1.03', () => {
+    expect(invoiceTotals([{ kind: 'part', quantity: 1, unitPriceCents: -1000 }], 1025)).toEqual({
+      lineTotalsCents: [-1000], subtotalCents: -1000, taxCents: -103, totalCents: -1103,
+    });
+  });
+
   it('an invoice without lines is zero', () => {
     expect(invoiceTotals([], 1025)).toEqual({ lineTotalsCents: [], subtotalCents: 0, taxCents: 0, totalCents: 0 });
   });
