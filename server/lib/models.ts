@@ -1,5 +1,5 @@
 import type { NonAttribute } from 'sequelize';
-import { Network, RelayRun, Shop, ShopSkill, Skill } from '../modules/networks/models.js';
+import { Network, RelayRun, Shop, ShopClosingDay, ShopSkill, Skill } from '../modules/networks/models.js';
 import { AuditLog, Invitation, Membership, TechnicianSkill, User } from '../modules/members/models.js';
 import { Customer, HistoryEvent, Instrument } from '../modules/registry/models.js';
 import { Job, JobLineItem, ServiceCatalogItem, TimeLog } from '../modules/jobs/models.js';
@@ -19,7 +19,7 @@ import { sequelize } from './db.js';
  * and every query starts from rows already filtered by the session's network.
  */
 export {
-  Network, Shop, Skill, ShopSkill, RelayRun,
+  Network, Shop, Skill, ShopSkill, ShopClosingDay, RelayRun,
   User, Membership, TechnicianSkill, Invitation, AuditLog,
   Customer, Instrument, HistoryEvent,
   Job, JobLineItem, TimeLog, ServiceCatalogItem,

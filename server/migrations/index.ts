@@ -8,6 +8,7 @@ import * as rateLimitStore from './0010-rate-limit-store.js';
 import * as attachmentEtag from './0009-attachment-etag.js';
 import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
 import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
+import * as shopClosingDays from './0015-shop-closing-days.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -25,4 +26,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0010-rate-limit-store', ...rateLimitStore },
   { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
   { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
+  { name: '0015-shop-closing-days', ...shopClosingDays },
 ];

@@ -108,6 +108,8 @@ export interface JobDetail {
     /** For the promised date's public holidays (the same rule the server applies). */
     country: string | null;
     region: string | null;
+    /** The owner's closing days of the shop, 'YYYY-MM-DD' (the preview skips them as the server does). */
+    closedDays: string[];
     laborRateCents: number;
     taxRateBasisPoints: number;
   };

@@ -148,3 +148,37 @@ export interface ShopView {
   active: boolean;
   skills: ShopSkillView[];
 }
+
+/** True for 'YYYY-MM-DD' naming a real calendar day (no 2027-02-30, no 2026-13-01). */
+export function isCalendarDate(value: string): boolean {
+  const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(value);
+  if (!m) return false;
+  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  if (y < 1900 || y > 2200 || mo < 1 || mo > 12 || d < 1) return false;
+  const t = new Date(Date.UTC(y, mo - 1, d));
+  return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d;
+}
+
+const calendarDate = z
+  .string({ error: 'Choose the day, e.g. 2027-07-05.' })
+  .trim()
+  .refine(isCalendarDate, { error: 'Choose a real calendar day as YYYY-MM-DD, e.g. 2027-07-05.' });
+
+/** A day the owner closes the shop; a past day is allowed (turnaround reports count it too). */
+export const closingDayInputSchema = z.object({
+  date: calendarDate,
+  reason: z
+    .string({ error: 'Say why the shop is closed, e.g. Stocktake.' })
+    .trim()
+    .min(1, { error: 'Say why the shop is closed, e.g. Stocktake.' })
+    .max(200, { error: 'At most 200 characters.' }),
+});
+export type ClosingDayInput = z.input<typeof closingDayInputSchema>;
+
+/** The `:date` of DELETE /api/shops/:id/closing-days/:date. */
+export const closingDayParamSchema = calendarDate;
+
+export interface ClosingDayView {
+  date: string;
+  reason: string;
+}

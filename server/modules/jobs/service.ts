@@ -30,6 +30,7 @@ import {
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
+import { closedDaysOf } from '../networks/service.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {
   allowedMoves,
@@ -309,7 +310,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     include: [...summaryIncludes(), { model: User, as: 'openedBy', attributes: ['id', 'name'] }],
   }))!;
   const shop = await findShop(actor.networkId, job.shopId);
-  const [items, logs, history, technicians, skills, customer, openTransfer] = await Promise.all([
+  const [items, logs, history, technicians, skills, customer, openTransfer, closedDays] = await Promise.all([
     lineItemsOf(job),
     TimeLog.findAll({
       where: { networkId: actor.networkId, jobId: job.id },
@@ -332,6 +333,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
         { association: 'toShop', attributes: ['id', 'name', 'timeZone'] },
       ],
     }) as Promise<(Transfer & { fromShop: Shop; toShop: Shop }) | null>,
+    closedDaysOf(actor.networkId, job.shopId),
   ]);
 
   const row = asRow(job);
@@ -400,6 +402,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       openingDays: shop.openingDays,
       country: shop.country ?? null,
       region: shop.region ?? null,
+      closedDays,
       laborRateCents: shop.laborRateCents,
       taxRateBasisPoints: shop.taxRateBasisPoints,
     },
@@ -466,7 +469,14 @@ export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): 
     let promise: string | null | undefined;
     if (input.promiseInOpeningDays !== undefined) {
       try {
-        promise = addOpeningDays(new Date(), input.promiseInOpeningDays, shop);
+        const closedDays = await closedDaysOf(actor.networkId, job.shopId, transaction);
+        promise = addOpeningDays(new Date(), input.promiseInOpeningDays, {
+          timeZone: shop.timeZone,
+          openingDays: shop.openingDays,
+          country: shop.country,
+          region: shop.region,
+          closedDays,
+        });
       } catch (err) {
         // a shop row with no opening day or an unknown time zone: say so instead of counting forever
         if (err instanceof ShopCalendarError) throw conflict(err.message, { promiseInOpeningDays: err.message });

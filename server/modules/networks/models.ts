@@ -137,6 +137,31 @@ ShopSkill.init(
   { sequelize, modelName: 'ShopSkill', tableName: 'shop_skills', underscored: true },
 );
 
+/** A day the owner closes one shop (besides its weekdays off and public holidays), on the shop's calendar. */
+export class ShopClosingDay extends Model<InferAttributes<ShopClosingDay>, InferCreationAttributes<ShopClosingDay>> {
+  declare id: CreationOptional<string>;
+  declare networkId: string;
+  declare shopId: string;
+  /** 'YYYY-MM-DD' */
+  declare date: string;
+  declare reason: string;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+ShopClosingDay.init(
+  {
+    id: idColumn(),
+    networkId: networkIdColumn(),
+    shopId: refColumn(),
+    date: { type: DataTypes.DATEONLY, allowNull: false },
+    reason: { type: DataTypes.TEXT, allowNull: false },
+    createdAt: DataTypes.DATE,
+    updatedAt: DataTypes.DATE,
+  },
+  { sequelize, modelName: 'ShopClosingDay', tableName: 'shop_closing_days', underscored: true },
+);
+
 /** A scheduled courier trip from one shop to another. */
 export class RelayRun extends Model<InferAttributes<RelayRun>, InferCreationAttributes<RelayRun>> {
   declare id: CreationOptional<string>;

@@ -1,8 +1,10 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { actorOf, requireActor } from '../../lib/auth.js';
-import { notFound } from '../../lib/errors.js';
+import { badRequest, notFound } from '../../lib/errors.js';
 import {
+  closingDayInputSchema,
+  closingDayParamSchema,
   relayRunInputSchema,
   relayRunQuerySchema,
   relayRunUpdateSchema,
@@ -14,13 +16,16 @@ import {
   technicianSkillsSchema,
 } from '../../../shared/schemas/shops.js';
 import {
+  addClosingDay,
   createRelayRun,
   createShop,
   createSkill,
   getShop,
+  listClosingDays,
   listRelayRuns,
   listShops,
   listSkills,
+  removeClosingDay,
   removeRelayRun,
   setShopSkills,
   setTechnicianSkills,
@@ -69,6 +74,22 @@ networksRouter.put('/api/shops/:id/skills', requireActor, async (req, res) => {
 networksRouter.put('/api/shops/:id/technician-skills', requireActor, async (req, res) => {
   const id = idParam(req.params.id, 'That shop');
   res.json({ shop: await setTechnicianSkills(actorOf(req), id, technicianSkillsSchema.parse(req.body)) });
+});
+
+networksRouter.get('/api/shops/:id/closing-days', requireActor, async (req, res) => {
+  res.json({ closingDays: await listClosingDays(actorOf(req), idParam(req.params.id, 'That shop')) });
+});
+
+networksRouter.post('/api/shops/:id/closing-days', requireActor, async (req, res) => {
+  const id = idParam(req.params.id, 'That shop');
+  res.status(201).json({ closingDays: await addClosingDay(actorOf(req), id, closingDayInputSchema.parse(req.body)) });
+});
+
+networksRouter.delete('/api/shops/:id/closing-days/:date', requireActor, async (req, res) => {
+  const id = idParam(req.params.id, 'That shop');
+  const date = closingDayParamSchema.safeParse(req.params.date);
+  if (!date.success) throw badRequest('Some fields need attention.', { date: 'Choose a real calendar day as YYYY-MM-DD, e.g. 2027-07-05.' });
+  res.json({ closingDays: await removeClosingDay(actorOf(req), id, date.data) });
 });
 
 networksRouter.get('/api/skills', requireActor, async (req, res) => {

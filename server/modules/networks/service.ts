@@ -1,13 +1,15 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { sequelize } from '../../lib/db.js';
-import { Membership, RelayRun, Shop, ShopSkill, Skill, TechnicianSkill, User } from '../../lib/models.js';
+import { Membership, RelayRun, Shop, ShopClosingDay, ShopSkill, Skill, TechnicianSkill, User } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { isOwner } from '../../../shared/auth/ability.js';
 import { badRequest, conflict, notFound } from '../../lib/errors.js';
 import { OPEN_JOB_STAGES, type IsoWeekday } from '../../../shared/domain.js';
 import type {
+  ClosingDayInput,
+  ClosingDayView,
   RelayRunUpdate,
   ShopSkillsInput,
   ShopUpdate,
@@ -451,4 +453,60 @@ export async function removeRelayRun(actor: Actor, id: string): Promise<{ remove
     await audit(actor, 'relay_run.removed', 'RelayRun', run.id, before, null, transaction);
     return { removed: true, run: relayRunView(run) };
   });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Closing days: days the owner closes a shop besides its weekdays off and the public holidays
+
+const closingDayView = (d: ShopClosingDay): ClosingDayView => ({ date: d.date, reason: d.reason });
+
+/** A shop's closing days as 'YYYY-MM-DD', for promised-date counting (no access check: callers have one). */
+export async function closedDaysOf(networkId: string, shopId: string, transaction?: Transaction): Promise<string[]> {
+  const rows = await ShopClosingDay.findAll({ where: { networkId, shopId }, attributes: ['date'], order: [['date', 'ASC']], transaction });
+  return rows.map((r) => r.date);
+}
+
+/** The closing days of a shop, oldest first; anyone who may read the shop may read them. */
+export async function listClosingDays(actor: Actor, shopId: string): Promise<ClosingDayView[]> {
+  const shop = await loadShop(actor, shopId);
+  assertCan(actor.ability, 'read', 'Shop', plainShop(shop), 'You have no role at that shop.');
+  const rows = await ShopClosingDay.findAll({ where: { networkId: actor.networkId, shopId: shop.id }, order: [['date', 'ASC']] });
+  return rows.map(closingDayView);
+}
+
+const CLOSING_DAYS_DENIED = 'Only the network owner sets a shop’s closing days.';
+
+/** Adds a closing day (the owner's alone, like editing the shop); a day already closed is a conflict. */
+export async function addClosingDay(actor: Actor, shopId: string, input: ClosingDayInput & { reason: string }): Promise<ClosingDayView[]> {
+  await sequelize.transaction(async (transaction) => {
+    const shop = await loadShop(actor, shopId, transaction);
+    assertCan(actor.ability, 'update', 'Shop', plainShop(shop), CLOSING_DAYS_DENIED);
+    const existing = await ShopClosingDay.findOne({ where: { networkId: actor.networkId, shopId: shop.id, date: input.date }, transaction });
+    if (existing) throw conflict(`${shop.name} is already closed on ${input.date}.`, { date: 'Already a closing day of this shop.' });
+    try {
+      const row = await ShopClosingDay.create({ networkId: actor.networkId, shopId: shop.id, date: input.date, reason: input.reason }, { transaction });
+      await audit(actor, 'shop.closing_day_added', 'Shop', shop.id, null, closingDayView(row), transaction);
+    } catch (err) {
+      // two owners adding the same day at once: the unique constraint answers for the second
+      if ((err as { name?: string }).name === 'SequelizeUniqueConstraintError') {
+        throw conflict(`${shop.name} is already closed on ${input.date}.`, { date: 'Already a closing day of this shop.' });
+      }
+      throw err;
+    }
+  });
+  return listClosingDays(actor, shopId);
+}
+
+/** Removes a closing day (the owner's alone); a day that is not a closing day of the shop is not found. */
+export async function removeClosingDay(actor: Actor, shopId: string, date: string): Promise<ClosingDayView[]> {
+  await sequelize.transaction(async (transaction) => {
+    const shop = await loadShop(actor, shopId, transaction);
+    assertCan(actor.ability, 'update', 'Shop', plainShop(shop), CLOSING_DAYS_DENIED);
+    const row = await ShopClosingDay.findOne({ where: { networkId: actor.networkId, shopId: shop.id, date }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw notFound('That closing day');
+    const before = closingDayView(row);
+    await row.destroy({ transaction });
+    await audit(actor, 'shop.closing_day_removed', 'Shop', shop.id, before, null, transaction);
+  });
+  return listClosingDays(actor, shopId);
 }

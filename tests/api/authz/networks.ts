@@ -1,4 +1,4 @@
-import { RelayRun } from '../../../server/lib/models.js';
+import { RelayRun, Shop, ShopClosingDay } from '../../../server/lib/models.js';
 import { uniq } from '../../helpers/factories.js';
 import { SCOPES, type RouteCase, type Scope } from './types.js';
 
@@ -8,6 +8,9 @@ const signedIn = { owner: SCOPES, regional_manager: SCOPES, front_desk: SCOPES, 
 const ownerInNetwork = { owner: ['own', 'otherShop'] as Scope[] };
 
 let codes = 0;
+/** A different calendar day for every call, so each cell adds or removes a day of its own. */
+let dayCount = 0;
+const freshDay = () => new Date(Date.UTC(2031, 0, 1) + (++dayCount + Math.floor(Math.random() * 3000) * 400) * 86_400_000).toISOString().slice(0, 10);
 const freshCode = () => `M${String(++codes).padStart(3, '0')}${Math.floor(Math.random() * 1000)}`.slice(0, 8);
 
 export const cases: RouteCase[] = [
@@ -52,6 +55,37 @@ export const cases: RouteCase[] = [
     }),
     // the technician must work at the shop
     foreignIds: { 'body.userId': { kind: 'user', otherShop: 'refused' }, 'body.skills.0.skillId': 'skill' },
+  },
+  {
+    // closing days are read with the shop
+    route: 'GET /api/shops/:id/closing-days',
+    allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own'], technician: ['own'], auditor: ['own'] },
+    build: ({ world, scope }) => ({ path: `/api/shops/${world.ids[scope].shop}/closing-days` }),
+  },
+  {
+    // and set by the owner, like the rest of the shop
+    route: 'POST /api/shops/:id/closing-days',
+    allow: ownerInNetwork,
+    build: ({ world, scope }) => ({ path: `/api/shops/${world.ids[scope].shop}/closing-days`, body: { date: freshDay(), reason: 'Stocktake' } }),
+    foreignIds: {},
+    verify: async ({ world, scope, built }) => {
+      const { date } = built.body as { date: string };
+      const row = await ShopClosingDay.findOne({ where: { shopId: world.ids[scope].shop, date } });
+      if (!row) throw new Error(`closing day ${date} was not stored`);
+    },
+  },
+  {
+    route: 'DELETE /api/shops/:id/closing-days/:date',
+    allow: ownerInNetwork,
+    build: async ({ world, scope }) => {
+      const shop = await Shop.findOne({ where: { id: world.ids[scope].shop } });
+      const day = await ShopClosingDay.create({ networkId: shop!.networkId, shopId: shop!.id, date: freshDay(), reason: 'Bench move' });
+      return { path: `/api/shops/${shop!.id}/closing-days/${day.date}` };
+    },
+    verify: async ({ world, scope, built }) => {
+      const date = built.path.split('/').pop()!;
+      if (await ShopClosingDay.findOne({ where: { shopId: world.ids[scope].shop, date } })) throw new Error(`closing day ${date} is still there`);
+    },
   },
 
   { route: 'GET /api/skills', scopeless: true, allow: signedIn, build: () => ({ path: '/api/skills' }) },

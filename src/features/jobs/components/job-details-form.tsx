@@ -89,7 +89,7 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
             hint={
               preview
                 ? `Promise: ${formatCalendarDate(preview)}`
-                : `Counts only the days ${shop.name} opens (${shop.openingDays.map((d) => WEEKDAYS[d - 1]).join(', ')}).`
+                : `Counts only the days ${shop.name} opens (${shop.openingDays.map((d) => WEEKDAYS[d - 1]).join(', ')}), skipping public holidays and the shop’s closing days.`
             }
           >
             <input inputMode="numeric" className={controlClasses} value={days} onChange={(e) => setDays(e.target.value)} placeholder="e.g. 5" />
