@@ -55,6 +55,36 @@ export function publicHolidays(country: string | null | undefined, region: strin
   return dates;
 }
 
+/** A public holiday as the owner sees it beside the shop's closing days. */
+export interface PublicHoliday {
+  date: string;
+  name: string;
+}
+
+/**
+ * The public holidays of a country (and region) from `fromDate` for `days` days, oldest first: the same
+ * "public" days (substitute days included) that promised dates skip, with their names.
+ */
+export function upcomingPublicHolidays(country: string | null | undefined, region: string | null | undefined, fromDate: string, days = 365): PublicHoliday[] {
+  if (!country) return [];
+  const hd = new Holidays();
+  const c = country.toUpperCase();
+  const r = region?.toUpperCase() ?? '';
+  if (!(c in (hd.getCountries() ?? {}))) return [];
+  if (r && r in (hd.getStates(c) ?? {})) hd.init(c, r);
+  else hd.init(c);
+  const start = parseISO(fromDate);
+  const end = format(addDays(start, days), 'yyyy-MM-dd');
+  const out: PublicHoliday[] = [];
+  for (let year = start.getFullYear(); year <= Number(end.slice(0, 4)); year++) {
+    for (const h of hd.getHolidays(year)) {
+      const date = h.date.slice(0, 10);
+      if (h.type === 'public' && date >= fromDate && date < end) out.push({ date, name: h.name });
+    }
+  }
+  return out.sort((a, b) => a.date.localeCompare(b.date));
+}
+
 /** A shop's open-or-closed test for local calendar days. */
 function openTest(shop: ShopCalendar): (day: Date) => boolean {
   const open = new Set<number>(shop.openingDays as readonly number[]);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { addOpeningDays, openingDaysUntil, publicHolidays } from '../../shared/jobs/promised-date.js';
+import { addOpeningDays, openingDaysUntil, publicHolidays, upcomingPublicHolidays } from '../../shared/jobs/promised-date.js';
 
 /**
  * Promised dates against a published holiday calendar: the U.S. Office of Personnel Management's federal
@@ -43,5 +43,21 @@ describe('public holidays in promised dates (U.S. OPM federal holidays 2027)', (
   it('closing days the owner adds are skipped too', () => {
     const friday = new Date('2027-11-05T23:00:00Z');
     expect(addOpeningDays(friday, 5, { ...seattle, closedDays: ['2027-11-12'] })).toBe('2027-11-16');
+  });
+
+  it('the shop screen’s coming 12 months list the same OPM days, named, and nothing outside the window', () => {
+    // from 1 Jan 2027 for 365 days: 2027's eleven OPM days plus New Year's Day 2028 observed on Fri 31 Dec 2027
+    const list = upcomingPublicHolidays('US', 'WA', '2027-01-01', 365);
+    const dates = list.map((h) => h.date);
+    for (const date of [...OPM_2027, '2027-12-31']) expect(dates, date).toContain(date);
+    expect(dates.every((d) => d >= '2027-01-01' && d < '2028-01-01')).toBe(true);
+    expect(list.find((h) => h.date === '2027-11-25')?.name).toMatch(/Thanksgiving/);
+    expect([...dates].sort()).toEqual(dates);
+    // from mid-November, for 60 days: Thanksgiving, Christmas (observed Fri 24 Dec and the Saturday itself), New
+    // Year (observed Fri 31 Dec and Sat 1 Jan 2028 itself); MLK Day 2028 (third Monday of January: Mon 17 Jan 2028,
+    // 5 U.S.C. 6103(a)) is outside the 60 days (they end before 14 Jan 2028)
+    const late = upcomingPublicHolidays('US', null, '2027-11-15', 60).map((h) => h.date);
+    expect(late).toEqual(['2027-11-25', '2027-12-24', '2027-12-25', '2027-12-31', '2028-01-01']);
+    expect(upcomingPublicHolidays('ZZ', null, '2027-01-01')).toEqual([]);
   });
 });

@@ -5,6 +5,7 @@ import { Card, CardTitle } from '@/components/ui/card';
 import { ErrorState } from '@/components/ui/error-state';
 import { PageHeader } from '@/components/ui/page-header';
 import { PageSpinner } from '@/components/ui/spinner';
+import { ClosingDaysEditor } from '@/features/shops/components/closing-days-editor';
 import { RelayRunsEditor } from '@/features/shops/components/relay-runs-editor';
 import { ShopForm } from '@/features/shops/components/shop-form';
 import { ShopSkillsEditor } from '@/features/shops/components/shop-skills-editor';
@@ -13,6 +14,7 @@ import { useUpdateShop } from '@/features/shops/mutations';
 import { shopQueryOptions, skillsQueryOptions } from '@/features/shops/queries';
 import { sessionKeys } from '@/features/session/queries';
 import { errorMessage, serverFieldErrors } from '@/lib/form-errors';
+import { useAppAbility } from '@/lib/ability';
 import { useDocumentTitle } from '@/lib/use-document-title';
 import { useCurrentShop, withShop } from '../current-shop';
 import { useSession } from '../session-context';
@@ -21,6 +23,7 @@ import { useSession } from '../session-context';
 export function ShopRoute() {
   const { id = '' } = useParams();
   const me = useSession();
+  const ability = useAppAbility();
   const { currentShop } = useCurrentShop();
   const shop = useQuery(shopQueryOptions(id));
   const skills = useQuery(skillsQueryOptions());
@@ -75,6 +78,9 @@ export function ShopRoute() {
           <ShopSkillsEditor key={`skills-${s.id}`} shop={s} skills={skills.data} />
           <TechnicianHoursEditor shop={s} skills={skills.data} />
           <RelayRunsEditor shop={s} shops={me.shops} />
+        </div>
+        <div className="xl:col-span-2">
+          <ClosingDaysEditor shop={s} canEdit={ability.can('update', 'Shop')} />
         </div>
       </div>
     </>

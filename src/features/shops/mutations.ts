@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { RelayRunInput, RelayRunUpdate, ShopInput, ShopSkillsInput, SkillInput, TechnicianSkillsInput } from '@shared/schemas/shops';
+import type { ClosingDayInput, RelayRunInput, RelayRunUpdate, ShopInput, ShopSkillsInput, SkillInput, TechnicianSkillsInput } from '@shared/schemas/shops';
 import { api } from '@/lib/api-client';
-import { shopKeys, type RelayRun, type ShopDetail, type Skill } from './queries';
+import { shopKeys, type ClosingDay, type RelayRun, type ShopDetail, type Skill } from './queries';
 
 /** Any change to shops can show on every shop view (names in switchers, summaries, relay runs). */
 function useInvalidateShops() {
@@ -53,4 +53,26 @@ export function useUpdateRelayRun() {
 export function useRemoveRelayRun() {
   const invalidate = useInvalidateShops();
   return useMutation({ mutationFn: (id: string) => api.delete<{ removed: boolean }>(`/api/relay-runs/${id}`), onSuccess: invalidate });
+}
+
+/** Closing days also change promised dates, so job pages read the shop's days afresh too. */
+function useInvalidateClosingDays() {
+  const client = useQueryClient();
+  return () => Promise.all([client.invalidateQueries({ queryKey: shopKeys.all }), client.invalidateQueries({ queryKey: ['jobs'] })]);
+}
+
+export function useAddClosingDay(shopId: string) {
+  const invalidate = useInvalidateClosingDays();
+  return useMutation({
+    mutationFn: (input: ClosingDayInput) => api.post<{ closingDays: ClosingDay[] }>(`/api/shops/${shopId}/closing-days`, input),
+    onSuccess: invalidate,
+  });
+}
+
+export function useRemoveClosingDay(shopId: string) {
+  const invalidate = useInvalidateClosingDays();
+  return useMutation({
+    mutationFn: (date: string) => api.delete<{ closingDays: ClosingDay[] }>(`/api/shops/${shopId}/closing-days/${encodeURIComponent(date)}`),
+    onSuccess: invalidate,
+  });
 }

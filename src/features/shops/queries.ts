@@ -24,8 +24,8 @@ export function shopsSummaryQueryOptions() {
 }
 
 /** The bodies of the Shops API (server/modules/networks). */
-import type { ShopSkillView as ShopSkill, ShopView as Shop } from '@shared/schemas/shops';
-export type { ShopSkill, Shop };
+import type { ClosingDayView as ClosingDay, ShopSkillView as ShopSkill, ShopView as Shop } from '@shared/schemas/shops';
+export type { ClosingDay, ShopSkill, Shop };
 
 
 export interface RelayRun {
@@ -60,6 +60,7 @@ export interface Skill {
 export const shopAdminKeys = {
   list: () => [...shopKeys.all, 'list'] as const,
   detail: (id: string) => [...shopKeys.all, 'detail', id] as const,
+  closingDays: (id: string) => [...shopKeys.all, 'closing-days', id] as const,
   skills: () => [...shopKeys.all, 'skills'] as const,
   relayRuns: () => [...shopKeys.all, 'relay-runs'] as const,
 };
@@ -85,5 +86,14 @@ export function skillsQueryOptions() {
     queryKey: shopAdminKeys.skills(),
     queryFn: ({ signal }) => api.get<{ skills: Skill[] }>('/api/skills', signal),
     select: (data) => data.skills,
+  });
+}
+
+/** The owner's closing days of a shop, oldest first. */
+export function closingDaysQueryOptions(shopId: string) {
+  return queryOptions({
+    queryKey: shopAdminKeys.closingDays(shopId),
+    queryFn: ({ signal }) => api.get<{ closingDays: ClosingDay[] }>(`/api/shops/${encodeURIComponent(shopId)}/closing-days`, signal),
+    select: (data) => data.closingDays,
   });
 }
