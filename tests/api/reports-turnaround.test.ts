@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { quantile } from 'simple-statistics';
 import { buildApp } from '../../server/app.js';
-import { Instrument, Job } from '../../server/lib/models.js';
+import { Instrument, Job, ShopClosingDay } from '../../server/lib/models.js';
 import { businessDaysBetween } from '../../shared/reports/business-days.js';
 import { TURNAROUND_WINDOWS, type DashboardReport, type TurnaroundFigure } from '../../shared/reports/schemas.js';
 import type { InstrumentFamily } from '../../shared/domain.js';
@@ -31,7 +31,7 @@ interface Fixture {
 describe('turnaround: median and 90th percentile per window, shop and family', () => {
   const app = buildApp();
   let ownerCookie: string;
-  const shops: Record<string, { id: string; timeZone: string; openingDays: number[] }> = {};
+  const shops: Record<string, { id: string; timeZone: string; openingDays: number[]; country: string; closedDays: string[] }> = {};
   const jobs: Fixture[] = [];
   let report: DashboardReport;
   let now: number;
@@ -42,11 +42,17 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
     // New York opens Monday–Friday; Tokyo Tuesday–Saturday: the same span is a different count of days
     const ny = await makeShop(net.id, { name: 'Hudson bench', timeZone: 'America/New_York' });
     const tokyo = await makeShop(net.id, { name: 'Sumida bench', timeZone: 'Asia/Tokyo' });
+    // both keep the default country US: the sample's 420 days cross U.S. public holidays, which are not business days
     await tokyo.update({ openingDays: [2, 3, 4, 5, 6] });
+    // the hand-worked shops are in ZZ (an ISO 3166 user-assigned code, no holiday calendar): weekdays and closing days only
     const hand = await makeShop(net.id, { name: 'Known answers bench', timeZone: 'UTC' });
-    shops.ny = { id: ny.id, timeZone: ny.timeZone, openingDays: [1, 2, 3, 4, 5] };
-    shops.tokyo = { id: tokyo.id, timeZone: tokyo.timeZone, openingDays: [2, 3, 4, 5, 6] };
-    shops.hand = { id: hand.id, timeZone: 'UTC', openingDays: [1, 2, 3, 4, 5] };
+    await hand.update({ country: 'ZZ' });
+    const closing = await makeShop(net.id, { name: 'Stocktake bench', timeZone: 'UTC' });
+    await closing.update({ country: 'ZZ' });
+    shops.ny = { id: ny.id, timeZone: ny.timeZone, openingDays: [1, 2, 3, 4, 5], country: 'US', closedDays: [] };
+    shops.tokyo = { id: tokyo.id, timeZone: tokyo.timeZone, openingDays: [2, 3, 4, 5, 6], country: 'US', closedDays: [] };
+    shops.hand = { id: hand.id, timeZone: 'UTC', openingDays: [1, 2, 3, 4, 5], country: 'ZZ', closedDays: [] };
+    shops.closing = { id: closing.id, timeZone: 'UTC', openingDays: [1, 2, 3, 4, 5], country: 'ZZ', closedDays: [] };
 
     now = Date.now();
     // Deterministic spread of jobs: ready between 1 and 420 days ago (never within half a day of a
@@ -70,6 +76,13 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
     for (const daysBefore of [7, 6, 4, 3, 14]) {
       jobs.push({ shopId: hand.id, family: 'oboe', openedAt: new Date(monday - daysBefore * DAY + 9 * HOUR), readyAt: handReady });
     }
+    // A closing day, by hand: UTC, Monday–Friday, taken in that same Monday, ready on its Friday → Tue, Wed, Thu, Fri =
+    // 4 business days; the owner closed the Wednesday → 3. A second job, the week before, with no closing day → 4.
+    const wednesday = new Date(monday + 2 * DAY).toISOString().slice(0, 10);
+    await ShopClosingDay.create({ networkId: net.id, shopId: closing.id, date: wednesday, reason: 'Stocktake' });
+    shops.closing.closedDays = [wednesday];
+    jobs.push({ shopId: closing.id, family: 'bassoon', openedAt: new Date(monday + 9 * HOUR), readyAt: new Date(monday + 4 * DAY + 15 * HOUR) });
+    jobs.push({ shopId: closing.id, family: 'bassoon', openedAt: new Date(monday - 7 * DAY + 9 * HOUR), readyAt: new Date(monday - 3 * DAY + 15 * HOUR) });
 
     let number = 700_000 + Math.floor(Math.random() * 1_000_000);
     for (const j of jobs) {
@@ -95,7 +108,7 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
     if (!sample.length) return { jobs: 0, medianBusinessDays: null, p90BusinessDays: null, medianCalendarDays: null, p90CalendarDays: null };
     const business = sample.map((j) => {
       const s = shopOf(j.shopId);
-      return businessDaysBetween(j.openedAt, j.readyAt, s.timeZone, s.openingDays);
+      return businessDaysBetween(j.openedAt, j.readyAt, s.timeZone, s.openingDays, { country: s.country, closedDays: s.closedDays });
     });
     const calendar = sample.map((j) => (j.readyAt.getTime() - j.openedAt.getTime()) / DAY);
     return {
@@ -126,6 +139,12 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
     expect(w.byFamily.find((f) => f.family === 'oboe')).toMatchObject({ jobs: 5, medianBusinessDays: 4, p90BusinessDays: 8 });
   });
 
+  it('an owner’s closing day is not a business day: 3 and 4 days, by hand, median 3.5', () => {
+    const w = report.turnaround.find((t) => t.days === 365)!;
+    // sorted [3, 4]: median 3.5; p90 at rank 0.9 × 1 = 0.9 → 3 + 0.9 × (4 − 3) = 3.9
+    expect(w.byShop.find((f) => f.shopId === shops.closing.id)).toMatchObject({ jobs: 2, medianBusinessDays: 3.5, p90BusinessDays: 3.9 });
+  });
+
   it.each(TURNAROUND_WINDOWS)('last %i days: overall, per shop and per family match the independent computation', (days) => {
     const w = report.turnaround.find((t) => t.days === days)!;
     const inWindow = jobs.filter((j) => j.readyAt.getTime() > now - days * DAY);
@@ -137,7 +156,7 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
       if (!sample.length) expect(actual, `${days}d shop ${shop.timeZone}`).toBeUndefined();
       else expectFigure(actual, expected(sample), `${days}d shop ${shop.timeZone}`);
     }
-    for (const family of ['flute', 'clarinet', 'trumpet', 'oboe'] as InstrumentFamily[]) {
+    for (const family of ['flute', 'clarinet', 'trumpet', 'oboe', 'bassoon'] as InstrumentFamily[]) {
       const sample = inWindow.filter((j) => j.family === family);
       const actual = w.byFamily.find((f) => f.family === family);
       if (!sample.length) expect(actual).toBeUndefined();
@@ -149,6 +168,10 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
     const sample = jobs.filter((j) => j.shopId !== shops.hand.id);
     const asIf = (zone: string, open: number[]) => sample.map((j) => businessDaysBetween(j.openedAt, j.readyAt, zone, open));
     expect(asIf('Asia/Tokyo', [2, 3, 4, 5, 6])).not.toEqual(asIf('America/New_York', [1, 2, 3, 4, 5]));
+    // and the U.S. public holidays count: some New York job spans one, so the figures above check the SQL's holidays too
+    const ny = jobs.filter((j) => j.shopId === shops.ny.id);
+    const withHolidays = ny.map((j) => businessDaysBetween(j.openedAt, j.readyAt, 'America/New_York', [1, 2, 3, 4, 5], { country: 'US' }));
+    expect(withHolidays).not.toEqual(ny.map((j) => businessDaysBetween(j.openedAt, j.readyAt, 'America/New_York', [1, 2, 3, 4, 5])));
   });
 
   it('the list behind a turnaround figure holds exactly the jobs in its sample', async () => {

@@ -1,5 +1,5 @@
 import { subject as asSubject } from '@casl/ability';
-import { QueryTypes } from 'sequelize';
+import { Op, QueryTypes } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
 import { Shop } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
@@ -23,6 +23,7 @@ import {
   type TurnaroundWindowReport,
   type WeeklyIntakeRow,
 } from '../../../shared/reports/schemas.js';
+import { publicHolidays } from '../../../shared/jobs/promised-date.js';
 import { invoiceTotals, type InvoiceLineInput } from '../../../shared/reports/money.js';
 import type { CustomerKind } from '../../../shared/schemas/registry.js';
 import { visibleCustomerNames } from '../registry/service.js';
@@ -233,6 +234,33 @@ export async function benchLoad(scope: Scope): Promise<BenchLoadRow[]> {
 }
 
 /**
+ * The public holidays (shared/jobs/promised-date.ts `publicHolidays`) of each report shop's country and region,
+ * for every year from the earliest intake of a job in the turnaround sample to the report's date.
+ */
+async function publicHolidaysInReport(scope: Scope, maxDays: number): Promise<Array<{ shop_id: string; day: string }>> {
+  const [first] = await select<{ first: string | null }>(
+    `select min(j.opened_at) as first
+       from jobs j
+      where j.network_id = :networkId and j.shop_id in (:shopIds) and j.ready_at is not null
+        and j.ready_at > cast(:asOf as timestamptz) - make_interval(days => :maxDays)
+        and j.ready_at <= cast(:asOf as timestamptz)`,
+    { ...scope, maxDays },
+  );
+  if (!first?.first) return [];
+  // a day either side: the shop's local year may differ from UTC's at the turn of the year
+  const fromYear = new Date(new Date(first.first).getTime() - 86_400_000).getUTCFullYear();
+  const toYear = new Date(new Date(scope.asOf).getTime() + 86_400_000).getUTCFullYear();
+  const shops = await Shop.findAll({ where: { networkId: scope.networkId, id: { [Op.in]: scope.shopIds } }, attributes: ['id', 'country', 'region'] });
+  const out: Array<{ shop_id: string; day: string }> = [];
+  for (const shop of shops) {
+    for (let year = fromYear; year <= toYear; year++) {
+      for (const day of publicHolidays(shop.country, shop.region, year)) out.push({ shop_id: shop.id, day });
+    }
+  }
+  return out;
+}
+
+/**
  * Turnaround from intake (opened_at) to Ready (ready_at) of the jobs that reached Ready in the last
  * 30, 90 and 365 days: median and 90th percentile with PostgreSQL's `percentile_cont` (linear
  * interpolation between the closest ranks), overall, per shop and per family, in one grouped query.
@@ -241,15 +269,27 @@ export async function benchLoad(scope: Scope): Promise<BenchLoadRow[]> {
  * calendar as shared/reports/business-days.ts defines them) and calendar days (elapsed time / 24 h).
  */
 export async function turnaround(scope: Scope): Promise<TurnaroundWindowReport[]> {
+  const maxDays = Math.max(...TURNAROUND_WINDOWS);
+  const holidays = await publicHolidaysInReport(scope, maxDays);
   const rows = await select<Record<string, unknown>>(
-    `with done as (
+    // closed: the public holidays of each shop's country and region (computed with date-holidays, handed in as
+    // JSON) and the owner's closing days; neither is a business day
+    `with closed as (
+       select h.shop_id, h.day
+         from jsonb_to_recordset(cast(:holidays as jsonb)) as h(shop_id uuid, day date)
+       union
+       select c.shop_id, c.date
+         from shop_closing_days c
+        where c.network_id = :networkId and c.shop_id in (:shopIds)
+     ), done as (
        select j.shop_id, i.family, j.ready_at,
               extract(epoch from (j.ready_at - j.opened_at)) / 86400.0 as calendar_days,
               (select count(*)
                  from generate_series(((j.opened_at at time zone s.time_zone)::date + 1)::timestamp,
                                       ((j.ready_at at time zone s.time_zone)::date)::timestamp,
                                       interval '1 day') as d(day)
-                where extract(isodow from d.day)::int = any(s.opening_days::int[])) as business_days
+                where extract(isodow from d.day)::int = any(s.opening_days::int[])
+                  and not exists (select 1 from closed x where x.shop_id = j.shop_id and x.day = d.day::date)) as business_days
          from jobs j
          join shops s on s.network_id = j.network_id and s.id = j.shop_id
          join instruments i on i.network_id = j.network_id and i.id = j.instrument_id
@@ -270,7 +310,7 @@ export async function turnaround(scope: Scope): Promise<TurnaroundWindowReport[]
             percentile_cont(0.9) within group (order by calendar_days) as p90_cd
        from windowed
       group by grouping sets ((days), (days, shop_id), (days, family))`,
-    { ...scope, windows: [...TURNAROUND_WINDOWS], maxDays: Math.max(...TURNAROUND_WINDOWS) },
+    { ...scope, windows: [...TURNAROUND_WINDOWS], maxDays, holidays: JSON.stringify(holidays) },
   );
   const figure = (r: Record<string, unknown>): TurnaroundFigure => ({
     jobs: num(r.jobs),

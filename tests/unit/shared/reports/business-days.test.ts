@@ -82,3 +82,23 @@ describe('local dates and opening days', () => {
     expect(isOpeningDay(at, 'Asia/Tokyo', MON_FRI)).toBe(false);
   });
 });
+
+describe('businessDaysBetween with public holidays and closing days (U.S. OPM federal holidays 2027, opm.gov)', () => {
+  // Fri 5 Nov 2027 → Fri 12 Nov 2027 in Los Angeles, across the end of daylight saving time (Sun 7 Nov):
+  // Mon 8, Tue 9, Wed 10, (Thu 11 Veterans Day, OPM 2027), Fri 12 → 4 business days, worked by hand
+  const start = new Date('2027-11-05T17:00:00Z');
+  const end = new Date('2027-11-12T23:00:00Z');
+  const MON_FRI = [1, 2, 3, 4, 5];
+  it('skips a public holiday of the shop’s country and region', () => {
+    expect(businessDaysBetween(start, end, 'America/Los_Angeles', MON_FRI)).toBe(5);
+    expect(businessDaysBetween(start, end, 'America/Los_Angeles', MON_FRI, { country: 'US', region: 'WA' })).toBe(4);
+  });
+  it('skips the owner’s closing days, but not one on a weekday the shop is closed anyway or outside the span', () => {
+    // Tue 9 closed → 3; Sat 6 (closed anyway), Fri 5 (the intake date, never counted) and Mon 15 (after) change nothing
+    const closedDays = ['2027-11-09', '2027-11-06', '2027-11-05', '2027-11-15'];
+    expect(businessDaysBetween(start, end, 'America/Los_Angeles', MON_FRI, { country: 'US', region: 'WA', closedDays })).toBe(3);
+  });
+  it('a closing day on a public holiday is not taken off twice', () => {
+    expect(businessDaysBetween(start, end, 'America/Los_Angeles', MON_FRI, { country: 'US', closedDays: ['2027-11-11'] })).toBe(4);
+  });
+});
