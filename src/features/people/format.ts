@@ -38,6 +38,8 @@ const ACTIONS: Record<string, string> = {
   'shop.updated': 'Edited a shop',
   'shop.skills_set': 'Set a shop’s skills',
   'technician.skills_set': 'Set a technician’s hours',
+  'shop.closing_day_added': 'Closed a shop for a day',
+  'shop.closing_day_removed': 'Opened a shop again on a closing day',
   'skill.created': 'Added a skill',
   'skill.updated': 'Edited a skill',
   'relay_run.created': 'Added a relay run',
@@ -154,7 +156,7 @@ export const AUDIT_KIND_GROUPS: Array<{ entity: string; label: string; actions: 
   { entity: 'User', label: 'People', actions: ['person.updated', 'person.deactivated', 'person.reactivated'] },
   { entity: 'Membership', label: 'Roles', actions: ['membership.created', 'membership.updated', 'membership.removed'] },
   { entity: 'Invitation', label: 'Invitations', actions: ['invitation.created', 'invitation.resent', 'invitation.replaced', 'invitation.revoked', 'invitation.accepted'] },
-  { entity: 'Shop', label: 'Shops', actions: ['shop.created', 'shop.updated', 'shop.skills_set', 'technician.skills_set'] },
+  { entity: 'Shop', label: 'Shops', actions: ['shop.created', 'shop.updated', 'shop.skills_set', 'technician.skills_set', 'shop.closing_day_added', 'shop.closing_day_removed'] },
   { entity: 'Skill', label: 'Skills', actions: ['skill.created', 'skill.updated'] },
   { entity: 'RelayRun', label: 'Relay runs', actions: ['relay_run.created', 'relay_run.updated', 'relay_run.deactivated', 'relay_run.removed'] },
 ];
