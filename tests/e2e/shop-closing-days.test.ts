@@ -5,6 +5,9 @@ import { closeServerResources } from '../helpers/close.js';
 import { loadDemoNetwork } from '../../server/seed/demo.js';
 import { demoPeople } from '../../server/seed/demo-people.js';
 import { Shop, ShopClosingDay } from '../../server/lib/models.js';
+import { mkdirSync } from 'node:fs';
+
+const SHOTS = process.env.SHOTS_DIR ?? '/tmp/shots-ui';
 
 /**
  * In Chromium at 390 px: the owner closes a shop for a day from the shop's screen, sees the public holidays
@@ -49,6 +52,8 @@ describe('browser: a shop’s closing days on a phone', () => {
     expect((await ShopClosingDay.findAll({ where: { networkId: shop.networkId, shopId: shop.id } })).map((d) => d.date)).toEqual(['2030-08-16']);
 
     // nothing wider than the phone
+    mkdirSync(SHOTS, { recursive: true });
+    await section.screenshot({ path: `${SHOTS}/closing-days-390.png` });
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
 
     page.once('dialog', (d) => void d.accept());
