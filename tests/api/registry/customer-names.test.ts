@@ -214,6 +214,11 @@ describe('private customers’ names never leave the shops that serve them', () 
     });
 
     it('the manifest PDF that travels with the instrument names no private customer', async () => {
+      // the manifest is written at the pack step
+      await applyTransferStep({
+        networkId, transferId, to: 'packed', actorUserId: users.denDesk.id, at: new Date().toISOString(),
+        caseCount: 1, contents: 'Flute in its case', departureCondition: 'Pads dry; no dents',
+      });
       const res = await get('seaDesk', `/api/transfers/${transferId}/manifest`).buffer(true)
         .parse((r, done) => {
           const chunks: Buffer[] = [];

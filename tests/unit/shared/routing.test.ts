@@ -128,7 +128,7 @@ describe('rankShops', () => {
     const tac = ranked[0];
     expect(Date.parse(tac.arrivalAt!)).toBeGreaterThan(Date.parse('2024-06-11T17:30:00Z')); // Tue 10:30 PDT
     expect(Date.parse(tac.arrivalAt!)).toBeLessThan(Date.parse('2024-06-11T18:00:00Z')); // Tue 11:00 PDT
-    expect(tac.reasons.map((r) => r.text)).toContain('The next relay run would arrive Fri, Jun 14, 08:30 and finish later.');
+    expect(tac.reasons.map((r) => r.text)).toContain('The next relay run would arrive Fri 14 Jun 2024, 08:30 PDT and finish later.');
     expect(tac.backlogClearAt).toBe('2024-06-11T19:00:00.000Z'); // Tue 12:00 PDT
     expect(ranked[2]).toMatchObject({ isOrigin: true, arrivalAt: null, backlogClearAt: '2024-06-13T23:00:00.000Z' });
   });
