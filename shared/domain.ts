@@ -33,13 +33,13 @@ export const JOB_STAGE_LABELS: Record<JobStage, string> = {
 export const OPEN_JOB_STAGES: JobStage[] = ALL_JOB_STAGES.filter((s) => s !== 'released');
 
 export const INSTRUMENT_FAMILIES = [
-  'alto_saxophone', 'tenor_saxophone', 'baritone_saxophone', 'soprano_saxophone',
+  'alto_saxophone', 'tenor_saxophone', 'baritone_saxophone', 'bass_saxophone', 'soprano_saxophone',
   'flute', 'piccolo', 'clarinet', 'bass_clarinet', 'oboe', 'bassoon',
   'trumpet', 'trombone', 'french_horn', 'euphonium', 'tuba', 'other',
 ] as const;
 export type InstrumentFamily = (typeof INSTRUMENT_FAMILIES)[number];
 export const INSTRUMENT_FAMILY_LABELS: Record<InstrumentFamily, string> = {
-  alto_saxophone: 'Alto saxophone', tenor_saxophone: 'Tenor saxophone', baritone_saxophone: 'Baritone saxophone',
+  alto_saxophone: 'Alto saxophone', tenor_saxophone: 'Tenor saxophone', baritone_saxophone: 'Baritone saxophone', bass_saxophone: 'Bass saxophone',
   soprano_saxophone: 'Soprano saxophone', flute: 'Flute', piccolo: 'Piccolo', clarinet: 'Clarinet',
   bass_clarinet: 'Bass clarinet', oboe: 'Oboe', bassoon: 'Bassoon', trumpet: 'Trumpet', trombone: 'Trombone',
   french_horn: 'French horn', euphonium: 'Euphonium', tuba: 'Tuba', other: 'Other',

@@ -1,5 +1,6 @@
 import type { InstrumentFamily, JobStage } from './domain.js';
 import type { CustomerKind, ImportRowOutcome, ImportRowResult, InstrumentStatus, MatchKind, TimelineFilter } from './schemas/registry.js';
+import type { HazardCaution } from './safety/hazards.js';
 
 /** Shapes of the registry API's answers: built by server/modules/registry/service.ts, read by the client. */
 
@@ -55,9 +56,12 @@ export interface TimelineItem {
 
 export interface IntakeResult {
   job: { id: string; number: number; stage: JobStage; shopId: string };
-  instrument: { id: string; serial: string; maker: string; assetTag: string | null };
+  /** `heavyCase`: its family or its own flag makes lifting it deserve the caution. */
+  instrument: { id: string; serial: string; maker: string; assetTag: string | null; heavyCase: boolean };
   customerId: string | null;
   warnings: string[];
+  /** Shown on the intake confirmation: the lifting caution for a heavy case, before anyone carries it to the shelf. */
+  cautions: HazardCaution[];
   /** true when this request key had already opened the job (a retry): nothing new was written */
   replayed: boolean;
 }

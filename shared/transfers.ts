@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { InstrumentFamily, TransferState } from './domain.js';
+import type { TransferState } from './domain.js';
 
 /** Transfers: the state machine, the words for it, and the request bodies both sides validate with. */
 
@@ -29,21 +29,6 @@ export const OPEN_TRANSFER_STATES: TransferState[] = ['requested', 'approved', '
 
 export function canMove(from: TransferState, to: TransferState): boolean {
   return TRANSFER_TRANSITIONS[from].includes(to);
-}
-
-/**
- * Families whose cases are heavy or bulky enough that lifting them deserves a caution (common practice:
- * a baritone saxophone or a tuba in its case is a two-person or cart job in most shops).
- */
-export const HEAVY_CASE_FAMILIES: InstrumentFamily[] = ['baritone_saxophone', 'tuba', 'euphonium'];
-
-export const LIFTING_CAUTION =
-  'A baritone saxophone or a tuba in its case is heavy and awkward to carry: lift it with two people ' +
-  'or move it on a cart, keep it close to your body and do not twist while carrying. Follow your workplace ' +
-  'rules for manual handling and your local codes; they take precedence over this note.';
-
-export function isHeavyCase(family: InstrumentFamily): boolean {
-  return HEAVY_CASE_FAMILIES.includes(family);
 }
 
 const uuid = z.string().uuid('Choose a valid record.');

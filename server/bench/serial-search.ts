@@ -32,7 +32,7 @@ const QUERIES = Number(process.env.BENCH_QUERIES ?? 200);
 const KEEP = process.env.BENCH_KEEP === '1';
 const SLUG = `bench-serial-search-${N}`;
 
-const MAKERS = ['Aldmoor', 'Veyron Winds', 'Quellstone', 'Harrowgate & Finch', 'Brassmere', 'Oxlade Reedworks', 'Tamsin Vale', 'Corvell Band Works'];
+const MAKERS = ['Aldmoor', 'Skelmire Winds', 'Quellstone', 'Harrowgate & Finch', 'Brassmere', 'Oxlade Reedworks', 'Tamsin Vale', 'Corvell Band Works'];
 
 // (g * 7919) mod 10^8 is a bijection for g < 10^8 (7919 is prime to 10^8), so every serial is distinct
 // while neighbouring rows get unrelated digits, as real serials of one fleet do.

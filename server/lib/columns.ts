@@ -55,3 +55,6 @@ export function bigintColumn(key: string, allowNull = false) {
 export function oneOf(values: readonly string[]) {
   return { isIn: { args: [values as string[]], msg: `must be one of: ${values.join(', ')}` } };
 }
+
+/** The owner's hazard tags (shared/safety/hazards.ts), a text[] checked by the database as well. */
+export const hazardsColumn = () => ({ type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] }) as const;

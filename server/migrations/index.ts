@@ -9,6 +9,8 @@ import * as attachmentEtag from './0009-attachment-etag.js';
 import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
 import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 import * as shopClosingDays from './0015-shop-closing-days.js';
+import * as hazardTags from './0020-hazard-tags.js';
+import * as hazardTagsFromNames from './0021-hazard-tags-from-names.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -27,4 +29,6 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
   { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
   { name: '0015-shop-closing-days', ...shopClosingDays },
+  { name: '0020-hazard-tags', ...hazardTags },
+  { name: '0021-hazard-tags-from-names', ...hazardTagsFromNames },
 ];

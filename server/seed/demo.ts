@@ -30,6 +30,7 @@ import {
 import { demoPeople } from './demo-people.js';
 import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
 import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
+import type { Hazard } from '../../shared/safety/hazards.js';
 
 /**
  * The demo network: an invented chain of five band-instrument repair shops with people in every
@@ -68,35 +69,38 @@ function localDate(at: Date, timeZone: string): string {
 // Static content
 
 /*
- * Invented for the demo: shops, addresses, phone numbers (555 numbers) and labor rates. Tax rates are from
- * memory, near each city's combined sales tax around 2024 (10.25 % Seattle and Chicago, none in Oregon,
- * 8.75 % Sacramento, 8.81 % Denver); not checked against any tax authority, not for real invoices.
+ * Invented for the demo: shops, street addresses, postal codes, phone numbers, labor rates and tax rates. Only the
+ * cities, their coordinates and time zones are real. Postal codes sit in 00010–00099, a range no US ZIP code uses
+ * (from memory: the lowest ZIP codes in use start at 005), so none can be mistaken for a real address. Phone numbers
+ * use 555-0100 to 555-0199, the range set aside for fiction. The tax rates are round figures picked for the demo,
+ * not any city's sales tax (Portland's 0 % shows an estimate without tax), and not for real invoices.
+ * tests/server/seed-demo-invented.test.ts checks all of this.
  */
 const SHOPS = [
   {
     code: 'SEA', name: 'Harborline Seattle', addressLine: '2217 Alder Crescent', city: 'Seattle', region: 'WA',
-    postalCode: '98109', latitude: 47.6062, longitude: -122.3321, timeZone: 'America/Los_Angeles',
-    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9200, taxRateBasisPoints: 1025, phone: '+1 206 555 0141',
+    postalCode: '00041', latitude: 47.6062, longitude: -122.3321, timeZone: 'America/Los_Angeles',
+    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9200, taxRateBasisPoints: 900, phone: '+1 206 555 0141',
   },
   {
     code: 'PDX', name: 'Harborline Portland', addressLine: '418 Quarry Lane', city: 'Portland', region: 'OR',
-    postalCode: '97209', latitude: 45.5152, longitude: -122.6784, timeZone: 'America/Los_Angeles',
+    postalCode: '00042', latitude: 45.5152, longitude: -122.6784, timeZone: 'America/Los_Angeles',
     openingDays: [2, 3, 4, 5, 6], laborRateCents: 8800, taxRateBasisPoints: 0, phone: '+1 503 555 0177',
   },
   {
     code: 'SAC', name: 'Harborline Sacramento', addressLine: '91 Tule Reed Way', city: 'Sacramento', region: 'CA',
-    postalCode: '95814', latitude: 38.5816, longitude: -121.4944, timeZone: 'America/Los_Angeles',
-    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9000, taxRateBasisPoints: 875, phone: '+1 916 555 0123',
+    postalCode: '00043', latitude: 38.5816, longitude: -121.4944, timeZone: 'America/Los_Angeles',
+    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9000, taxRateBasisPoints: 750, phone: '+1 916 555 0123',
   },
   {
     code: 'DEN', name: 'Harborline Denver', addressLine: '3300 Larkbunting Street', city: 'Denver', region: 'CO',
-    postalCode: '80205', latitude: 39.7392, longitude: -104.9903, timeZone: 'America/Denver',
-    openingDays: [2, 3, 4, 5, 6], laborRateCents: 8500, taxRateBasisPoints: 881, phone: '+1 303 555 0162',
+    postalCode: '00044', latitude: 39.7392, longitude: -104.9903, timeZone: 'America/Denver',
+    openingDays: [2, 3, 4, 5, 6], laborRateCents: 8500, taxRateBasisPoints: 600, phone: '+1 303 555 0162',
   },
   {
     code: 'CHI', name: 'Harborline Chicago', addressLine: '1508 West Ferrule Avenue', city: 'Chicago', region: 'IL',
-    postalCode: '60607', latitude: 41.8781, longitude: -87.6298, timeZone: 'America/Chicago',
-    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9500, taxRateBasisPoints: 1025, phone: '+1 312 555 0119',
+    postalCode: '00045', latitude: 41.8781, longitude: -87.6298, timeZone: 'America/Chicago',
+    openingDays: [1, 2, 3, 4, 5], laborRateCents: 9500, taxRateBasisPoints: 800, phone: '+1 312 555 0119',
   },
 ] as const;
 type ShopCode = (typeof SHOPS)[number]['code'];
@@ -159,35 +163,42 @@ const STAFF: Array<{ key: string; name: string; email: string; shop: ShopCode; s
   { key: 'tobias', name: 'Tobias Renninger', email: 'tobias.renninger@benchrelay.test', shop: 'CHI', skills: { low_sax: 20, woodwind: 20, brass_dent: 10, flute: 10 } },
 ];
 
+/*
+ * The hazards each demo service carries, as an owner would tag them: a repad takes old pads out (heat, debonder,
+ * solvent), glues new ones in (cement or cyanoacrylate, heat) and unhooks springs; dent work may unsolder a brace
+ * and buffs the repair; cork and felt go on with contact cement or shellac over a flame.
+ */
+const REPAD: Hazard[] = ['pad_removal', 'adhesive', 'heat_flame', 'solvent', 'springs_sharp'];
+
 const CATALOG = [
-  { key: 'repad_alto', name: 'Repad — alto saxophone', family: 'alto_saxophone', hours: 6, skill: 'woodwind' },
-  { key: 'repad_tenor', name: 'Repad — tenor saxophone', family: 'tenor_saxophone', hours: 7.5, skill: 'woodwind' },
-  { key: 'repad_bari', name: 'Repad — baritone saxophone', family: 'baritone_saxophone', hours: 10, skill: 'low_sax' },
-  { key: 'overhaul_bari', name: 'Overhaul — baritone saxophone', family: 'baritone_saxophone', hours: 18, skill: 'low_sax' },
-  { key: 'play_bari', name: 'Play condition — baritone saxophone', family: 'baritone_saxophone', hours: 2.5, skill: 'low_sax' },
-  { key: 'play_woodwind', name: 'Play condition — woodwind', family: null, hours: 1.5, skill: 'woodwind' },
-  { key: 'repad_flute', name: 'Repad — flute', family: 'flute', hours: 5, skill: 'flute' },
-  { key: 'repad_clarinet', name: 'Repad — clarinet', family: 'clarinet', hours: 3.5, skill: 'clarinet_double_reed' },
-  { key: 'overhaul_clarinet', name: 'Overhaul — clarinet', family: 'clarinet', hours: 6, skill: 'clarinet_double_reed' },
-  { key: 'double_reed', name: 'Adjust and seal — oboe or bassoon', family: null, hours: 2, skill: 'clarinet_double_reed' },
-  { key: 'leak_test', name: 'Leak test & adjust', family: null, hours: 1, skill: 'woodwind' },
-  { key: 'cork_felt', name: 'Cork & felt replacement', family: null, hours: 1.5, skill: 'woodwind' },
-  { key: 'dent_small', name: 'Dent removal — small brass', family: null, hours: 1.5, skill: 'brass_dent' },
-  { key: 'dent_large', name: 'Dent removal — large brass', family: null, hours: 3, skill: 'brass_dent' },
-  { key: 'chem_clean', name: 'Chemical clean & lubrication — brass', family: null, hours: 1.5, skill: 'brass_dent' },
-  { key: 'slide_align', name: 'Slide alignment — trombone', family: 'trombone', hours: 1, skill: 'brass_dent' },
-] as const;
+  { key: 'repad_alto', name: 'Repad — alto saxophone', family: 'alto_saxophone', hours: 6, skill: 'woodwind', hazards: REPAD },
+  { key: 'repad_tenor', name: 'Repad — tenor saxophone', family: 'tenor_saxophone', hours: 7.5, skill: 'woodwind', hazards: REPAD },
+  { key: 'repad_bari', name: 'Repad — baritone saxophone', family: 'baritone_saxophone', hours: 10, skill: 'low_sax', hazards: REPAD },
+  { key: 'overhaul_bari', name: 'Overhaul — baritone saxophone', family: 'baritone_saxophone', hours: 18, skill: 'low_sax', hazards: ['pad_removal', 'adhesive', 'heat_flame', 'solvent', 'solder_lead', 'abrasive_rotary', 'springs_sharp'] },
+  { key: 'play_bari', name: 'Play condition — baritone saxophone', family: 'baritone_saxophone', hours: 2.5, skill: 'low_sax', hazards: ['adhesive', 'heat_flame', 'springs_sharp'] },
+  { key: 'play_woodwind', name: 'Play condition — woodwind', family: null, hours: 1.5, skill: 'woodwind', hazards: ['adhesive', 'heat_flame', 'springs_sharp'] },
+  { key: 'repad_flute', name: 'Repad — flute', family: 'flute', hours: 5, skill: 'flute', hazards: REPAD },
+  { key: 'repad_clarinet', name: 'Repad — clarinet', family: 'clarinet', hours: 3.5, skill: 'clarinet_double_reed', hazards: REPAD },
+  { key: 'overhaul_clarinet', name: 'Overhaul — clarinet', family: 'clarinet', hours: 6, skill: 'clarinet_double_reed', hazards: ['pad_removal', 'adhesive', 'heat_flame', 'solvent', 'abrasive_rotary', 'springs_sharp'] },
+  { key: 'double_reed', name: 'Adjust and seal — oboe or bassoon', family: null, hours: 2, skill: 'clarinet_double_reed', hazards: ['adhesive', 'heat_flame', 'springs_sharp'] },
+  { key: 'leak_test', name: 'Leak test & adjust', family: null, hours: 1, skill: 'woodwind', hazards: ['springs_sharp'] },
+  { key: 'cork_felt', name: 'Cork & felt replacement', family: null, hours: 1.5, skill: 'woodwind', hazards: ['adhesive', 'heat_flame'] },
+  { key: 'dent_small', name: 'Dent removal — small brass', family: null, hours: 1.5, skill: 'brass_dent', hazards: ['solder_lead', 'abrasive_rotary'] },
+  { key: 'dent_large', name: 'Dent removal — large brass', family: null, hours: 3, skill: 'brass_dent', hazards: ['solder_lead', 'abrasive_rotary'] },
+  { key: 'chem_clean', name: 'Chemical clean & lubrication — brass', family: null, hours: 1.5, skill: 'brass_dent', hazards: ['solvent'] },
+  { key: 'slide_align', name: 'Slide alignment — trombone', family: 'trombone', hours: 1, skill: 'brass_dent', hazards: ['solvent'] },
+] as const satisfies ReadonlyArray<{ key: string; name: string; family: InstrumentFamily | null; hours: number; skill: string; hazards: readonly Hazard[] }>;
 type CatalogKey = (typeof CATALOG)[number]['key'];
 
 const OTHER_PARTS = [
-  { sku: 'CORK-SHEET-1.6', name: 'Cork sheet 1.6 mm', unitPriceCents: 650 },
-  { sku: 'CORK-NECK-SAX', name: 'Saxophone neck cork', unitPriceCents: 400 },
-  { sku: 'FELT-ASSORT', name: 'Felt bumper assortment', unitPriceCents: 900 },
-  { sku: 'SPRING-BLUE-ASSORT', name: 'Blue steel needle spring assortment', unitPriceCents: 1200 },
-  { sku: 'PAD-CEMENT-STICK', name: 'Pad cement stick', unitPriceCents: 550 },
-  { sku: 'STEM-SET-SL', name: 'Mounting stem set for self-leveling pads', unitPriceCents: 1800 },
-  { sku: 'VALVE-GUIDE-TPT', name: 'Trumpet valve guide set', unitPriceCents: 1400 },
-  { sku: 'WATERKEY-CORK', name: 'Water key cork', unitPriceCents: 150 },
+  { sku: 'CORK-SHEET-1.6', name: 'Cork sheet 1.6 mm', unitPriceCents: 650, hazards: ['adhesive'] },
+  { sku: 'CORK-NECK-SAX', name: 'Saxophone neck cork', unitPriceCents: 400, hazards: ['adhesive'] },
+  { sku: 'FELT-ASSORT', name: 'Felt bumper assortment', unitPriceCents: 900, hazards: ['adhesive'] },
+  { sku: 'SPRING-BLUE-ASSORT', name: 'Blue steel needle spring assortment', unitPriceCents: 1200, hazards: ['springs_sharp'] },
+  { sku: 'PAD-CEMENT-STICK', name: 'Pad cement stick', unitPriceCents: 550, hazards: ['adhesive', 'heat_flame'] },
+  { sku: 'STEM-SET-SL', name: 'Mounting stem set for self-leveling pads', unitPriceCents: 1800, hazards: ['adhesive'] },
+  { sku: 'VALVE-GUIDE-TPT', name: 'Trumpet valve guide set', unitPriceCents: 1400, hazards: [] },
+  { sku: 'WATERKEY-CORK', name: 'Water key cork', unitPriceCents: 150, hazards: ['adhesive'] },
 ] as const;
 
 /** Pads for a repad, by family: [pad kind, diameter mm, quantity]. */
@@ -221,7 +232,7 @@ type OwnerKey = (typeof PERSONS)[number]['key'] | (typeof SCHOOLS)[number]['key'
  */
 const MAKERS = {
   A: { name: 'Aldmoor', serial: (n: number) => `AB-${100 + (n % 900)} ${String((n * 7919) % 1000).padStart(3, '0')}` },
-  V: { name: 'Veyron Winds', serial: (n: number) => String(7_700_000 + ((n * 104_729) % 300_000)) },
+  V: { name: 'Skelmire Winds', serial: (n: number) => String(7_700_000 + ((n * 104_729) % 300_000)) },
   Q: { name: 'Quellstone', serial: (n: number) => `Q ${700 + (n % 300)} ${String((n * 331) % 1000).padStart(3, '0')}` },
   H: { name: 'Harrowgate & Finch', serial: (n: number) => `HF/${20_000 + ((n * 4_099) % 80_000)}` },
   B: { name: 'Brassmere', serial: (n: number) => `BM.${10 + (n % 80)}.${String((n * 613) % 1000).padStart(3, '0')}` },
@@ -247,69 +258,69 @@ interface InstrumentSpec {
 // prettier-ignore
 const INSTRUMENTS: InstrumentSpec[] = [
   // saxophones
-  { key: 'alto1', family: 'alto_saxophone', maker: 'A', model: 'AS-300', owner: 'S1', shop: 'SEA', year: 2016, serial: 'AB-104 233' },
-  { key: 'alto2', family: 'alto_saxophone', maker: 'V', model: 'Meridian Alto', owner: 'FLEET', shop: 'SEA', year: 2019, serial: '7719204' },
-  { key: 'alto3', family: 'alto_saxophone', maker: 'A', model: 'AS-300', owner: 'FLEET', shop: 'PDX', year: 2018 },
-  { key: 'alto4', family: 'alto_saxophone', maker: 'V', model: 'Meridian Alto', owner: 'P2', shop: 'PDX', year: 2011 },
-  { key: 'alto5', family: 'alto_saxophone', maker: 'A', model: 'AS-500 Pro', owner: 'P3', shop: 'SAC', year: 2014 },
-  { key: 'alto6', family: 'alto_saxophone', maker: 'V', model: 'Meridian Alto', owner: 'S2', shop: 'SAC', year: 2017 },
-  { key: 'alto7', family: 'alto_saxophone', maker: 'A', model: 'AS-300', owner: 'S3', shop: 'DEN', year: 2020 },
-  { key: 'alto8', family: 'alto_saxophone', maker: 'V', model: 'Meridian Alto', owner: 'P5', shop: 'CHI', year: 2009 },
-  { key: 'alto9', family: 'alto_saxophone', maker: 'A', model: 'AS-300', owner: 'FLEET', shop: 'CHI', year: 2021 },
-  { key: 'alto10', family: 'alto_saxophone', maker: 'A', model: 'AS-300', owner: 'S1', shop: 'SEA', year: 2015 },
-  { key: 'tenor1', family: 'tenor_saxophone', maker: 'A', model: 'TS-450', owner: 'S1', shop: 'SEA', year: 2013 },
-  { key: 'tenor2', family: 'tenor_saxophone', maker: 'V', model: 'Meridian Tenor', owner: 'P2', shop: 'PDX', year: 2006 },
-  { key: 'tenor3', family: 'tenor_saxophone', maker: 'A', model: 'TS-450', owner: 'S2', shop: 'PDX', year: 2012 },
-  { key: 'tenor4', family: 'tenor_saxophone', maker: 'V', model: 'Meridian Tenor', owner: 'FLEET', shop: 'CHI', year: 2018 },
-  { key: 'tenor5', family: 'tenor_saxophone', maker: 'A', model: 'TS-450', owner: 'S3', shop: 'DEN', year: 2016 },
-  { key: 'tenor6', family: 'tenor_saxophone', maker: 'V', model: 'Meridian Tenor', owner: 'P6', shop: 'SEA', year: 2002 },
-  { key: 'bari1', family: 'baritone_saxophone', maker: 'A', model: 'BS-900', owner: 'S1', shop: 'SEA', year: 2010 },
-  { key: 'bari2', family: 'baritone_saxophone', maker: 'V', model: 'Meridian Baritone', owner: 'S3', shop: 'DEN', year: 2008 },
-  { key: 'bari3', family: 'baritone_saxophone', maker: 'A', model: 'BS-900', owner: 'FLEET', shop: 'PDX', year: 2015 },
-  { key: 'bari4', family: 'baritone_saxophone', maker: 'V', model: 'Meridian Baritone', owner: 'S2', shop: 'CHI', year: 2012 },
-  { key: 'bari5', family: 'baritone_saxophone', maker: 'A', model: 'BS-900 Low A', owner: 'P5', shop: 'CHI', year: 2019 },
-  { key: 'sop1', family: 'soprano_saxophone', maker: 'A', model: 'SS-200', owner: 'P5', shop: 'CHI', year: 2017 },
+  { key: 'alto1', family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', owner: 'S1', shop: 'SEA', year: 2016, serial: 'AB-104 233' },
+  { key: 'alto2', family: 'alto_saxophone', maker: 'V', model: 'Skelmire Alto', owner: 'FLEET', shop: 'SEA', year: 2019, serial: '7719204' },
+  { key: 'alto3', family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', owner: 'FLEET', shop: 'PDX', year: 2018 },
+  { key: 'alto4', family: 'alto_saxophone', maker: 'V', model: 'Skelmire Alto', owner: 'P2', shop: 'PDX', year: 2011 },
+  { key: 'alto5', family: 'alto_saxophone', maker: 'A', model: 'Tarnhollow Alto', owner: 'P3', shop: 'SAC', year: 2014 },
+  { key: 'alto6', family: 'alto_saxophone', maker: 'V', model: 'Skelmire Alto', owner: 'S2', shop: 'SAC', year: 2017 },
+  { key: 'alto7', family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', owner: 'S3', shop: 'DEN', year: 2020 },
+  { key: 'alto8', family: 'alto_saxophone', maker: 'V', model: 'Skelmire Alto', owner: 'P5', shop: 'CHI', year: 2009 },
+  { key: 'alto9', family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', owner: 'FLEET', shop: 'CHI', year: 2021 },
+  { key: 'alto10', family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', owner: 'S1', shop: 'SEA', year: 2015 },
+  { key: 'tenor1', family: 'tenor_saxophone', maker: 'A', model: 'Fenlark Tenor', owner: 'S1', shop: 'SEA', year: 2013 },
+  { key: 'tenor2', family: 'tenor_saxophone', maker: 'V', model: 'Skelmire Tenor', owner: 'P2', shop: 'PDX', year: 2006 },
+  { key: 'tenor3', family: 'tenor_saxophone', maker: 'A', model: 'Fenlark Tenor', owner: 'S2', shop: 'PDX', year: 2012 },
+  { key: 'tenor4', family: 'tenor_saxophone', maker: 'V', model: 'Skelmire Tenor', owner: 'FLEET', shop: 'CHI', year: 2018 },
+  { key: 'tenor5', family: 'tenor_saxophone', maker: 'A', model: 'Fenlark Tenor', owner: 'S3', shop: 'DEN', year: 2016 },
+  { key: 'tenor6', family: 'tenor_saxophone', maker: 'V', model: 'Skelmire Tenor', owner: 'P6', shop: 'SEA', year: 2002 },
+  { key: 'bari1', family: 'baritone_saxophone', maker: 'A', model: 'Fenlark Baritone', owner: 'S1', shop: 'SEA', year: 2010 },
+  { key: 'bari2', family: 'baritone_saxophone', maker: 'V', model: 'Skelmire Baritone', owner: 'S3', shop: 'DEN', year: 2008 },
+  { key: 'bari3', family: 'baritone_saxophone', maker: 'A', model: 'Fenlark Baritone', owner: 'FLEET', shop: 'PDX', year: 2015 },
+  { key: 'bari4', family: 'baritone_saxophone', maker: 'V', model: 'Skelmire Baritone', owner: 'S2', shop: 'CHI', year: 2012 },
+  { key: 'bari5', family: 'baritone_saxophone', maker: 'A', model: 'Fenlark Baritone Low A', owner: 'P5', shop: 'CHI', year: 2019 },
+  { key: 'sop1', family: 'soprano_saxophone', maker: 'A', model: 'Fenlark Soprano', owner: 'P5', shop: 'CHI', year: 2017 },
   // flutes and piccolos
-  { key: 'flute1', family: 'flute', maker: 'Q', model: 'Q-100 Student', owner: 'S1', shop: 'SEA', year: 2018, serial: 'q 771 002' },
-  { key: 'flute2', family: 'flute', maker: 'T', model: 'Aria Open Hole', owner: 'P1', shop: 'SEA', year: 2010 },
-  { key: 'flute3', family: 'flute', maker: 'Q', model: 'Q-100 Student', owner: 'FLEET', shop: 'SAC', year: 2020 },
-  { key: 'flute4', family: 'flute', maker: 'T', model: 'Aria Open Hole', owner: 'S3', shop: 'DEN', year: 2015 },
-  { key: 'flute5', family: 'flute', maker: 'Q', model: 'Q-350 Open Hole', owner: 'P4', shop: 'DEN', year: 2012 },
-  { key: 'flute6', family: 'flute', maker: 'Q', model: 'Q-100 Student', owner: 'FLEET', shop: 'CHI', year: 2022 },
-  { key: 'flute7', family: 'flute', maker: 'T', model: 'Aria Student', owner: 'S2', shop: 'SAC', year: 2019 },
-  { key: 'flute8', family: 'flute', maker: 'Q', model: 'Q-100 Student', owner: 'S1', shop: 'SEA', year: 2021 },
-  { key: 'picc1', family: 'piccolo', maker: 'Q', model: 'QP-20 Piccolo', owner: 'S3', shop: 'DEN', year: 2014 },
-  { key: 'picc2', family: 'piccolo', maker: 'T', model: 'Wren Piccolo', owner: 'P1', shop: 'SEA', year: 2016 },
+  { key: 'flute1', family: 'flute', maker: 'Q', model: 'Brookmint Student', owner: 'S1', shop: 'SEA', year: 2018, serial: 'q 771 002' },
+  { key: 'flute2', family: 'flute', maker: 'T', model: 'Ottermere Open Hole', owner: 'P1', shop: 'SEA', year: 2010 },
+  { key: 'flute3', family: 'flute', maker: 'Q', model: 'Brookmint Student', owner: 'FLEET', shop: 'SAC', year: 2020 },
+  { key: 'flute4', family: 'flute', maker: 'T', model: 'Ottermere Open Hole', owner: 'S3', shop: 'DEN', year: 2015 },
+  { key: 'flute5', family: 'flute', maker: 'Q', model: 'Brookmint Open Hole', owner: 'P4', shop: 'DEN', year: 2012 },
+  { key: 'flute6', family: 'flute', maker: 'Q', model: 'Brookmint Student', owner: 'FLEET', shop: 'CHI', year: 2022 },
+  { key: 'flute7', family: 'flute', maker: 'T', model: 'Ottermere Student', owner: 'S2', shop: 'SAC', year: 2019 },
+  { key: 'flute8', family: 'flute', maker: 'Q', model: 'Brookmint Student', owner: 'S1', shop: 'SEA', year: 2021 },
+  { key: 'picc1', family: 'piccolo', maker: 'Q', model: 'Brookmint Piccolo', owner: 'S3', shop: 'DEN', year: 2014 },
+  { key: 'picc2', family: 'piccolo', maker: 'T', model: 'Ottermere Piccolo', owner: 'P1', shop: 'SEA', year: 2016 },
   // clarinets and double reeds
-  { key: 'clar1', family: 'clarinet', maker: 'H', model: 'HF-11', owner: 'S1', shop: 'SEA', year: 2017 },
-  { key: 'clar2', family: 'clarinet', maker: 'O', model: 'Student 2', owner: 'FLEET', shop: 'PDX', year: 2019 },
-  { key: 'clar3', family: 'clarinet', maker: 'H', model: 'HF-11', owner: 'S2', shop: 'SAC', year: 2016 },
-  { key: 'clar4', family: 'clarinet', maker: 'O', model: 'Concert 9', owner: 'P4', shop: 'DEN', year: 2005 },
-  { key: 'clar5', family: 'clarinet', maker: 'H', model: 'HF-11', owner: 'S3', shop: 'DEN', year: 2018 },
-  { key: 'clar6', family: 'clarinet', maker: 'O', model: 'Student 2', owner: 'FLEET', shop: 'CHI', year: 2020 },
-  { key: 'clar7', family: 'clarinet', maker: 'H', model: 'HF-30 Pro', owner: 'P6', shop: 'SEA', year: 2011 },
-  { key: 'clar8', family: 'clarinet', maker: 'O', model: 'Student 2', owner: 'FLEET', shop: 'SAC', year: 2013, retired: true },
-  { key: 'bcl1', family: 'bass_clarinet', maker: 'H', model: 'HF-18 Bass', owner: 'S3', shop: 'DEN', year: 2009 },
-  { key: 'bcl2', family: 'bass_clarinet', maker: 'O', model: 'Low E Bass', owner: 'S2', shop: 'PDX', year: 2014 },
-  { key: 'oboe1', family: 'oboe', maker: 'H', model: 'HF-40 Oboe', owner: 'S2', shop: 'PDX', year: 2011 },
-  { key: 'oboe2', family: 'oboe', maker: 'H', model: 'HF-40 Oboe', owner: 'P3', shop: 'SAC', year: 2018 },
-  { key: 'bsn1', family: 'bassoon', maker: 'H', model: 'HF-70 Bassoon', owner: 'S3', shop: 'DEN', year: 2007 },
+  { key: 'clar1', family: 'clarinet', maker: 'H', model: 'Pellowick Student', owner: 'S1', shop: 'SEA', year: 2017 },
+  { key: 'clar2', family: 'clarinet', maker: 'O', model: 'Reedling Student', owner: 'FLEET', shop: 'PDX', year: 2019 },
+  { key: 'clar3', family: 'clarinet', maker: 'H', model: 'Pellowick Student', owner: 'S2', shop: 'SAC', year: 2016 },
+  { key: 'clar4', family: 'clarinet', maker: 'O', model: 'Reedling Concert', owner: 'P4', shop: 'DEN', year: 2005 },
+  { key: 'clar5', family: 'clarinet', maker: 'H', model: 'Pellowick Student', owner: 'S3', shop: 'DEN', year: 2018 },
+  { key: 'clar6', family: 'clarinet', maker: 'O', model: 'Reedling Student', owner: 'FLEET', shop: 'CHI', year: 2020 },
+  { key: 'clar7', family: 'clarinet', maker: 'H', model: 'Pellowick Concert', owner: 'P6', shop: 'SEA', year: 2011 },
+  { key: 'clar8', family: 'clarinet', maker: 'O', model: 'Reedling Student', owner: 'FLEET', shop: 'SAC', year: 2013, retired: true },
+  { key: 'bcl1', family: 'bass_clarinet', maker: 'H', model: 'Pellowick Bass', owner: 'S3', shop: 'DEN', year: 2009 },
+  { key: 'bcl2', family: 'bass_clarinet', maker: 'O', model: 'Reedling Bass Low E', owner: 'S2', shop: 'PDX', year: 2014 },
+  { key: 'oboe1', family: 'oboe', maker: 'H', model: 'Pellowick Oboe', owner: 'S2', shop: 'PDX', year: 2011 },
+  { key: 'oboe2', family: 'oboe', maker: 'H', model: 'Pellowick Oboe', owner: 'P3', shop: 'SAC', year: 2018 },
+  { key: 'bsn1', family: 'bassoon', maker: 'H', model: 'Pellowick Bassoon', owner: 'S3', shop: 'DEN', year: 2007 },
   // brass
-  { key: 'tpt1', family: 'trumpet', maker: 'B', model: 'BT-200', owner: 'S1', shop: 'SEA', year: 2018 },
-  { key: 'tpt2', family: 'trumpet', maker: 'C', model: 'Vanguard', owner: 'P3', shop: 'SAC', year: 2015, serial: '7719204' },
-  { key: 'tpt3', family: 'trumpet', maker: 'B', model: 'BT-200', owner: 'FLEET', shop: 'SAC', year: 2021 },
-  { key: 'tpt4', family: 'trumpet', maker: 'B', model: 'BT-500', owner: 'P5', shop: 'CHI', year: 2012 },
-  { key: 'tpt5', family: 'trumpet', maker: 'C', model: 'Vanguard', owner: 'FLEET', shop: 'DEN', year: 2019 },
-  { key: 'tpt6', family: 'trumpet', maker: 'B', model: 'BT-200', owner: 'S2', shop: 'SAC', year: 2020 },
-  { key: 'tbn1', family: 'trombone', maker: 'B', model: 'BT-40', owner: 'S1', shop: 'SEA', year: 2014 },
-  { key: 'tbn2', family: 'trombone', maker: 'B', model: 'BT-40', owner: 'FLEET', shop: 'CHI', year: 2017 },
-  { key: 'tbn3', family: 'trombone', maker: 'C', model: 'Tenor F', owner: 'S3', shop: 'DEN', year: 2011 },
-  { key: 'tbn4', family: 'trombone', maker: 'B', model: 'BT-40', owner: 'P1', shop: 'SEA', year: 2008 },
-  { key: 'horn1', family: 'french_horn', maker: 'B', model: 'BH-60 Double', owner: 'S3', shop: 'DEN', year: 2013 },
-  { key: 'horn2', family: 'french_horn', maker: 'B', model: 'BH-20 Single', owner: 'S2', shop: 'SAC', year: 2016 },
-  { key: 'euph1', family: 'euphonium', maker: 'C', model: 'Compensating 4', owner: 'S2', shop: 'SAC', year: 2010 },
-  { key: 'tuba1', family: 'tuba', maker: 'C', model: 'Grand BB-flat', owner: 'S2', shop: 'SAC', year: 2004 },
-  { key: 'tuba2', family: 'tuba', maker: 'C', model: 'Grand BB-flat', owner: 'S1', shop: 'SEA', year: 2009 },
+  { key: 'tpt1', family: 'trumpet', maker: 'B', model: 'Gullstep Trumpet', owner: 'S1', shop: 'SEA', year: 2018 },
+  { key: 'tpt2', family: 'trumpet', maker: 'C', model: 'Thistlecombe Trumpet', owner: 'P3', shop: 'SAC', year: 2015, serial: '7719204' },
+  { key: 'tpt3', family: 'trumpet', maker: 'B', model: 'Gullstep Trumpet', owner: 'FLEET', shop: 'SAC', year: 2021 },
+  { key: 'tpt4', family: 'trumpet', maker: 'B', model: 'Gullstep Large Bore', owner: 'P5', shop: 'CHI', year: 2012 },
+  { key: 'tpt5', family: 'trumpet', maker: 'C', model: 'Thistlecombe Trumpet', owner: 'FLEET', shop: 'DEN', year: 2019 },
+  { key: 'tpt6', family: 'trumpet', maker: 'B', model: 'Gullstep Trumpet', owner: 'S2', shop: 'SAC', year: 2020 },
+  { key: 'tbn1', family: 'trombone', maker: 'B', model: 'Gullstep Trombone', owner: 'S1', shop: 'SEA', year: 2014 },
+  { key: 'tbn2', family: 'trombone', maker: 'B', model: 'Gullstep Trombone', owner: 'FLEET', shop: 'CHI', year: 2017 },
+  { key: 'tbn3', family: 'trombone', maker: 'C', model: 'Thistlecombe Trombone F', owner: 'S3', shop: 'DEN', year: 2011 },
+  { key: 'tbn4', family: 'trombone', maker: 'B', model: 'Gullstep Trombone', owner: 'P1', shop: 'SEA', year: 2008 },
+  { key: 'horn1', family: 'french_horn', maker: 'B', model: 'Gullstep Double Horn', owner: 'S3', shop: 'DEN', year: 2013 },
+  { key: 'horn2', family: 'french_horn', maker: 'B', model: 'Gullstep Single Horn', owner: 'S2', shop: 'SAC', year: 2016 },
+  { key: 'euph1', family: 'euphonium', maker: 'C', model: 'Thistlecombe Compensating', owner: 'S2', shop: 'SAC', year: 2010 },
+  { key: 'tuba1', family: 'tuba', maker: 'C', model: 'Thistlecombe Grand', owner: 'S2', shop: 'SAC', year: 2004 },
+  { key: 'tuba2', family: 'tuba', maker: 'C', model: 'Thistlecombe Grand', owner: 'S1', shop: 'SEA', year: 2009 },
 ];
 
 interface OpenJobSpec {
@@ -367,6 +378,7 @@ const RELEASED_SERVICES: Record<InstrumentFamily, CatalogKey[]> = {
   alto_saxophone: ['repad_alto', 'play_woodwind', 'leak_test'],
   tenor_saxophone: ['repad_tenor', 'play_woodwind'],
   baritone_saxophone: ['play_bari', 'repad_bari'],
+  bass_saxophone: ['play_bari'],
   soprano_saxophone: ['play_woodwind'],
   flute: ['repad_flute', 'cork_felt', 'leak_test'],
   piccolo: ['leak_test', 'cork_felt'],
@@ -510,6 +522,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
       catalogId[c.key] = randomUUID();
       return {
         id: catalogId[c.key], networkId, name: c.name, family: c.family, standardHours: c.hours, skillId: skillId[c.skill],
+        hazards: [...c.hazards],
       };
     }),
     t,
@@ -533,6 +546,8 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
       padId.set(`${kind}:${d}`, { id, price, name });
       partRows.push({
         id, networkId, sku: `PAD-${prefix}-${d.toFixed(1)}`, name, kind: 'pad', padKind: kind, diameterMm: d, thicknessMm: thickness, unitPriceCents: price,
+        // glued pads are seated in warmed cement; self-leveling pads have their stem glued with cyanoacrylate
+        hazards: kind === 'glued' ? ['adhesive', 'heat_flame'] : ['adhesive'],
       });
     }
   }
@@ -540,7 +555,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   for (const p of OTHER_PARTS) {
     const id = randomUUID();
     otherPartId[p.sku] = { id, price: p.unitPriceCents, name: p.name };
-    partRows.push({ id, networkId, sku: p.sku, name: p.name, kind: 'other', unitPriceCents: p.unitPriceCents });
+    partRows.push({ id, networkId, sku: p.sku, name: p.name, kind: 'other', unitPriceCents: p.unitPriceCents, hazards: [...p.hazards] });
   }
   await Part.bulkCreate(partRows, t);
 
@@ -861,10 +876,10 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   });
   await HistoryEvent.bulkCreate(history, t);
 
-  // Pad maps of earlier repads of Aldmoor AS-300 altos, so the network has sizes to suggest for the
-  // next AS-300 and the next repad of each of these serials starts from its map. The nominal cups
+  // Pad maps of earlier repads of Aldmoor Fenlark altos, so the network has sizes to suggest for the
+  // next Fenlark Alto and the next repad of each of these serials starts from its map. The nominal cups
   // are invented; each horn varies a little around them.
-  const AS300_CUPS: Record<string, [cup: number, depth: number]> = {
+  const FENLARK_ALTO_CUPS: Record<string, [cup: number, depth: number]> = {
     low_bb: [45.8, 4.4], low_b: [45.3, 4.4], low_cs: [26.6, 3.8], low_c: [42.4, 4.3], low_eb: [27.3, 3.8], d: [36.8, 4.1],
     c: [33.2, 4.0], b: [25.6, 3.7], a: [26.2, 3.7], g: [24.4, 3.6], gs: [17.8, 3.3], f: [31.3, 3.9], e: [33.6, 4.0], fs: [20.2, 3.4],
     bis_bb: [9.8, 2.8], side_bb: [14.2, 3.0], side_c: [14.7, 3.0], high_e: [14.1, 3.0], high_fs: [11.6, 2.9], palm_d: [16.3, 3.1],
@@ -881,7 +896,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   for (const key of ['alto1', 'alto3', 'alto7', 'alto9', 'alto10']) {
     const visit = planned.filter((j) => j.inst.key === key && j.stage === 'released').at(-1);
     if (!visit) continue;
-    const entries = Object.entries(AS300_CUPS).map(([keyId, [cup, depth]]) => {
+    const entries = Object.entries(FENLARK_ALTO_CUPS).map(([keyId, [cup, depth]]) => {
       const cupMm = round2(cup + (rand() - 0.5) * 0.3);
       const depthMm = round2(depth + (rand() - 0.5) * 0.2);
       const rimMm = round2(cupMm - 2.6 - rand() * 0.8);
@@ -955,11 +970,11 @@ interface RushContext {
 /** Rental returns per week, starting the third week of July: a ramp up and a tail off. */
 const RUSH_WEEKS = [2, 4, 7, 11, 14, 12, 8, 4];
 const RUSH_FAMILIES: Array<{ family: InstrumentFamily; maker: MakerKey; model: string; service: CatalogKey }> = [
-  { family: 'flute', maker: 'Q', model: 'Q-100 Student', service: 'leak_test' },
-  { family: 'clarinet', maker: 'O', model: 'Student 2', service: 'play_woodwind' },
-  { family: 'alto_saxophone', maker: 'A', model: 'AS-300', service: 'play_woodwind' },
-  { family: 'trumpet', maker: 'B', model: 'BT-200', service: 'chem_clean' },
-  { family: 'trombone', maker: 'B', model: 'BT-40', service: 'slide_align' },
+  { family: 'flute', maker: 'Q', model: 'Brookmint Student', service: 'leak_test' },
+  { family: 'clarinet', maker: 'O', model: 'Reedling Student', service: 'play_woodwind' },
+  { family: 'alto_saxophone', maker: 'A', model: 'Fenlark Alto', service: 'play_woodwind' },
+  { family: 'trumpet', maker: 'B', model: 'Gullstep Trumpet', service: 'chem_clean' },
+  { family: 'trombone', maker: 'B', model: 'Gullstep Trombone', service: 'slide_align' },
 ];
 
 async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: RushContext): Promise<void> {

@@ -2,6 +2,7 @@ import type { InstrumentFamily, JobStage } from '../domain.js';
 import type { EstimateTotals } from './estimate.js';
 import type { MoveOption } from './stage-machine.js';
 import type { EstimateApprovalMethod } from './schemas.js';
+import type { Hazard, HazardCaution } from '../safety/hazards.js';
 
 /** The JSON the jobs API answers with; the client reads the same types. Dates are ISO strings. */
 
@@ -16,7 +17,8 @@ export interface JobSummary {
   stage: JobStage;
   stageBeforeHold: JobStage | null;
   shop: { id: string; name: string; timeZone: string };
-  instrument: { id: string; family: InstrumentFamily; maker: string; model: string | null; serial: string };
+  /** `heavyCase`: lifting it deserves the caution (a heavy family, or the instrument's own flag). */
+  instrument: { id: string; family: InstrumentFamily; maker: string; model: string | null; serial: string; heavyCase: boolean };
   /** null when there is no customer, or for a private customer of another shop (then `customerHidden`) */
   customerName: string | null;
   customerHidden: boolean;
@@ -54,8 +56,14 @@ export interface LineItemDto {
   unitPriceCents: number | null;
   position: number;
   totalCents: number;
-  /** Safety cautions for the work this line names (adhesives, solvents, heat, abrasives, lifting). */
-  cautions: string[];
+  /** The owner's hazard tags of the line's catalog item or part, and their cautions. */
+  hazards: Hazard[];
+  cautions: HazardCaution[];
+}
+
+/** A job on my bench, with the hazards its work carries (lines' tags, and lifting for a heavy case). */
+export interface BenchJob extends JobSummary {
+  hazards: Hazard[];
 }
 
 export interface TimeLogDto {
@@ -116,6 +124,8 @@ export interface JobDetail {
   /** `name` is null for a private customer whose details stay with the shops that serve them */
   customer: { id: string; name: string | null; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
   lineItems: LineItemDto[];
+  /** Everything the job's work can hurt someone with: shown beside the move that starts the work, and lifting at intake and hand-back. */
+  safety: { hazards: Hazard[]; heavyCase: boolean; cautions: HazardCaution[] };
   totals: EstimateTotals;
   timeLogs: TimeLogDto[];
   timeByTechnician: Array<{ user: PersonRef; minutes: number }>;
@@ -140,7 +150,8 @@ export interface CatalogItemDto {
   standardHours: number;
   skill: PersonRef | null;
   active: boolean;
-  cautions: string[];
+  hazards: Hazard[];
+  cautions: HazardCaution[];
 }
 
 export interface AttachmentDto {

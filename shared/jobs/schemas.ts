@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ALL_JOB_STAGES, INSTRUMENT_FAMILIES } from '../domain.js';
 import { hasAtMostTwoDecimals, MAX_HUNDREDTHS_VALUE } from './estimate.js';
+import { hazardsSchema } from '../safety/hazards.js';
 
 /**
  * Request shapes for the jobs API, used by the server to parse and by the client to validate forms,
@@ -132,6 +133,7 @@ export const catalogItemSchema = z.object({
   standardHours: hundredths('Standard hours', 9999.99),
   skillId: z.uuid().nullable(),
   active: z.boolean().optional(),
+  hazards: hazardsSchema.optional(),
 });
 export const catalogItemUpdateSchema = catalogItemSchema.partial().refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change.' });
 export const catalogQuerySchema = z.object({

@@ -37,6 +37,7 @@ const FAMILY_ALIASES: Record<string, InstrumentFamily> = {
   alto: 'alto_saxophone', 'alto sax': 'alto_saxophone', 'eb alto sax': 'alto_saxophone',
   tenor: 'tenor_saxophone', 'tenor sax': 'tenor_saxophone',
   bari: 'baritone_saxophone', baritone: 'baritone_saxophone', 'bari sax': 'baritone_saxophone', 'baritone sax': 'baritone_saxophone',
+  'bass sax': 'bass_saxophone',
   soprano: 'soprano_saxophone', 'soprano sax': 'soprano_saxophone',
   'bb clarinet': 'clarinet', 'b flat clarinet': 'clarinet', 'bass clar': 'bass_clarinet',
   horn: 'french_horn', 'f horn': 'french_horn', 'double horn': 'french_horn',
@@ -138,6 +139,8 @@ export const newInstrumentSchema = z.object({
   assetTag: assetTagField,
   notes: optionalText(2000, 'The note'),
   ownerKind: z.enum(OWNER_KINDS, { error: 'Say who owns the instrument.' }),
+  /** It travels in a heavy case whatever its family (a double case, a flight case): lifting cautions follow it. */
+  heavyCase: z.boolean({ error: 'Say whether the case is heavy.' }).optional(),
 });
 export type NewInstrumentInput = z.input<typeof newInstrumentSchema>;
 
@@ -304,3 +307,6 @@ export const timelineQuerySchema = z.object({
       return parts as TimelineFilter[];
     }),
 });
+
+/** The desk marks (or unmarks) an instrument that travels in a heavy case. */
+export const heavyCaseSchema = z.object({ heavyCase: z.boolean({ error: 'Say whether the case is heavy.' }) });

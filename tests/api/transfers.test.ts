@@ -24,7 +24,7 @@ describe('transfers API on the demo network', () => {
     cookie.desk = await signIn(app, demoPeople[2].email);
     cookie.auditor = await signIn(app, demoPeople[4].email);
     cookie.tobias = await signIn(app, 'tobias.renninger@benchrelay.test');
-    const bari1 = (await Instrument.findOne({ where: { networkId, family: 'baritone_saxophone', currentShopId: shop.SEA.id, model: 'BS-900' } }))!;
+    const bari1 = (await Instrument.findOne({ where: { networkId, family: 'baritone_saxophone', currentShopId: shop.SEA.id, model: 'Fenlark Baritone' } }))!;
     bari1Job = (await Job.findOne({ where: { networkId, instrumentId: bari1.id, stage: 'assessed' } }))!;
     awaiting = (await Transfer.findOne({ where: { networkId, jobId: bari1Job.id, state: 'requested' } }))!;
   });

@@ -29,7 +29,7 @@ describe('browser: pad map for an alto saxophone, by keyboard', () => {
     shopId = portland!.id;
     const tech = await User.findOne({ where: { networkId, email: demoPeople[3].email } });
     const instrument = await Instrument.create({
-      networkId, family: 'alto_saxophone', maker: 'Aldmoor', model: 'AS-300', serial: `AB-E2E ${uniq()}`, ownerKind: 'rental_fleet', currentShopId: shopId,
+      networkId, family: 'alto_saxophone', maker: 'Aldmoor', model: 'Fenlark Alto', serial: `AB-E2E ${uniq()}`, ownerKind: 'rental_fleet', currentShopId: shopId,
     });
     jobNumber = 700_000 + Math.floor(Math.random() * 99_000);
     const job = await Job.create({
@@ -115,7 +115,7 @@ describe('browser: pad map for an alto saxophone, by keyboard', () => {
     mkdirSync(SHOTS, { recursive: true });
     const tech = await User.findOne({ where: { networkId, email: demoPeople[3].email } });
     const instrument = await Instrument.create({
-      networkId, family: 'alto_saxophone', maker: 'Aldmoor', model: 'AS-300', serial: `AB-PHONE ${uniq()}`, ownerKind: 'rental_fleet', currentShopId: shopId,
+      networkId, family: 'alto_saxophone', maker: 'Aldmoor', model: 'Fenlark Alto', serial: `AB-PHONE ${uniq()}`, ownerKind: 'rental_fleet', currentShopId: shopId,
     });
     const number = 800_000 + Math.floor(Math.random() * 99_000);
     const job = await Job.create({

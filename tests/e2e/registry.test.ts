@@ -90,7 +90,7 @@ describe('browser: the shared registry at the front desk', () => {
     await page.getByRole('button', { name: /as a new instrument/ }).click();
     await page.getByLabel(/^Family/).selectOption('flute');
     await page.getByLabel(/^Maker/).fill('Quellstone');
-    await page.getByLabel(/^Model/).fill('Q-100 Student');
+    await page.getByLabel(/^Model/).fill('Brookmint Student');
     await page.getByLabel(/^Owned by/).selectOption('customer');
     await page.getByRole('button', { name: 'Continue' }).click();
 

@@ -57,7 +57,7 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     serial = `AB-9${uniq().slice(0, 5).toUpperCase()} 9`;
     const manager = (await User.findOne({ where: { networkId, email: demoPeople[1].email } }))!;
     const instrument = await Instrument.create({
-      networkId, family: 'baritone_saxophone', maker: 'Aldmoor', model: 'BS-900', serial, ownerKind: 'rental_fleet', currentShopId: shops.SEA.id,
+      networkId, family: 'baritone_saxophone', maker: 'Aldmoor', model: 'Fenlark Baritone', serial, ownerKind: 'rental_fleet', currentShopId: shops.SEA.id,
     });
     // the next job number of the demo network: other browser tests open jobs there too
     const number = ((await Job.max<number, Job>('number', { where: { networkId } })) ?? 1000) + 1;

@@ -14,7 +14,8 @@ import {
   type JobStage,
 } from '../../../shared/domain.js';
 import { sequelize } from '../../lib/db.js';
-import { decimalColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
+import type { Hazard } from '../../../shared/safety/hazards.js';
+import { decimalColumn, hazardsColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
 
 export const ESTIMATE_APPROVAL_METHODS = ['in_person', 'phone', 'email'] as const;
 export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number];
@@ -33,6 +34,8 @@ export class ServiceCatalogItem extends Model<InferAttributes<ServiceCatalogItem
   declare standardHours: number;
   declare skillId: CreationOptional<string | null>;
   declare active: CreationOptional<boolean>;
+  /** Set by the owner: the hazards of this work, which decide the cautions shown at the bench. */
+  declare hazards: CreationOptional<Hazard[]>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -46,6 +49,7 @@ ServiceCatalogItem.init(
     standardHours: decimalColumn('standardHours', 6, 2, false),
     skillId: optionalRefColumn(),
     active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+    hazards: hazardsColumn(),
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

@@ -41,7 +41,7 @@ import {
   type JobState,
   type MainStage,
 } from '../../../shared/jobs/stage-machine.js';
-import { cautionsFor } from '../../../shared/jobs/cautions.js';
+import { cautionsFor, isHeavyCase, normaliseHazards, type Hazard } from '../../../shared/safety/hazards.js';
 import {
   ESTIMATE_APPROVAL_METHOD_LABELS,
   type approvalSchema,
@@ -56,6 +56,7 @@ import {
   type timeLogSchema,
 } from '../../../shared/jobs/schemas.js';
 import type {
+  BenchJob,
   BoardResponse,
   CatalogItemDto,
   HistoryDto,
@@ -138,7 +139,7 @@ async function networkSkills(networkId: string): Promise<PersonRef[]> {
 }
 
 const summaryIncludes = () => [
-  { model: Instrument, as: 'instrument', attributes: ['id', 'family', 'maker', 'model', 'serial'] },
+  { model: Instrument, as: 'instrument', attributes: ['id', 'family', 'maker', 'model', 'serial', 'heavyCase'] },
   { model: User, as: 'assignee', attributes: ['id', 'name'] },
   { model: Skill, as: 'requiredSkill', attributes: ['id', 'name'] },
   { model: Customer, as: 'customer', attributes: ['id', 'kind', 'name', 'homeShopId'] },
@@ -158,7 +159,10 @@ function toSummary(job: Job, names: Map<string, string | null>, now = new Date()
     stage: job.stage,
     stageBeforeHold: job.stageBeforeHold ?? null,
     shop: { id: shop.id, name: shop.name, timeZone: shop.timeZone },
-    instrument: { id: inst.id, family: inst.family, maker: inst.maker, model: inst.model ?? null, serial: inst.serial },
+    instrument: {
+      id: inst.id, family: inst.family, maker: inst.maker, model: inst.model ?? null, serial: inst.serial,
+      heavyCase: isHeavyCase(inst.family, inst.heavyCase ?? false),
+    },
     customerName,
     customerHidden: !!job.customer && customerName === null,
     complaint: job.complaint,
@@ -250,7 +254,7 @@ export async function jobBoard(actor: Actor, q: BoardQuery): Promise<BoardRespon
 }
 
 /** A technician's own open work across their shops, soonest promise first (no promise last). */
-export async function myBench(actor: Actor, shopId?: string): Promise<{ jobs: JobSummary[] }> {
+export async function myBench(actor: Actor, shopId?: string): Promise<{ jobs: BenchJob[] }> {
   const readWhere = accessibleWhere(actor.ability, 'read', 'Job') ?? { id: null };
   const rows = await Job.findAll({
     where: {
@@ -265,14 +269,66 @@ export async function myBench(actor: Actor, shopId?: string): Promise<{ jobs: Jo
     limit: 200,
   });
   const now = new Date();
-  const names = await customerNamesFor(actor, rows);
-  return { jobs: rows.map((j) => toSummary(j, names, now)) };
+  const [names, lines] = await Promise.all([
+    customerNamesFor(actor, rows),
+    JobLineItem.findAll({
+      where: { networkId: actor.networkId, jobId: rows.map((j) => j.id) },
+      attributes: ['jobId', 'catalogItemId', 'partId'],
+    }),
+  ]);
+  const tags = await lineHazardsOf(actor.networkId, lines);
+  return {
+    jobs: rows.map((j) => {
+      const summary = toSummary(j, names, now);
+      const own = lines.filter((l) => l.jobId === j.id);
+      return { ...summary, hazards: jobHazards(own, tags, summary.instrument.heavyCase) };
+    }),
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Hazards: the owner's tags on catalog items and parts decide a job's cautions
+
+interface HazardTags {
+  catalog: Map<string, Hazard[]>;
+  parts: Map<string, Hazard[]>;
+}
+
+type TaggedLine = Pick<JobLineItem, 'catalogItemId' | 'partId'>;
+
+/** The owner's tags of the catalog items and parts the lines name. */
+async function lineHazardsOf(networkId: string, lines: TaggedLine[], transaction?: Transaction): Promise<HazardTags> {
+  const catalogIds = [...new Set(lines.map((l) => l.catalogItemId).filter((id): id is string => !!id))];
+  const partIds = [...new Set(lines.map((l) => l.partId).filter((id): id is string => !!id))];
+  const [items, parts] = await Promise.all([
+    catalogIds.length
+      ? ServiceCatalogItem.findAll({ where: { networkId, id: catalogIds }, attributes: ['id', 'hazards'], transaction })
+      : [],
+    partIds.length ? Part.findAll({ where: { networkId, id: partIds }, attributes: ['id', 'hazards'], transaction }) : [],
+  ]);
+  return {
+    catalog: new Map(items.map((i) => [i.id, i.hazards ?? []])),
+    parts: new Map(parts.map((p) => [p.id, p.hazards ?? []])),
+  };
+}
+
+function hazardsOfLine(line: TaggedLine, tags: HazardTags): Hazard[] {
+  return [
+    ...(line.catalogItemId ? (tags.catalog.get(line.catalogItemId) ?? []) : []),
+    ...(line.partId ? (tags.parts.get(line.partId) ?? []) : []),
+  ];
+}
+
+/** Every hazard of a job's lines, plus lifting when the instrument travels in a heavy case. */
+function jobHazards(lines: TaggedLine[], tags: HazardTags, heavyCase: boolean): Hazard[] {
+  return normaliseHazards([...lines.flatMap((l) => hazardsOfLine(l, tags)), ...(heavyCase ? (['heavy_lift'] as const) : [])]);
 }
 
 // ---------------------------------------------------------------------------------------------
 // The job page
 
-function lineDto(item: JobLineItem): LineItemDto {
+function lineDto(item: JobLineItem, tags: HazardTags): LineItemDto {
+  const hazards = normaliseHazards(hazardsOfLine(item, tags));
   return {
     id: item.id,
     kind: item.kind,
@@ -285,7 +341,8 @@ function lineDto(item: JobLineItem): LineItemDto {
     unitPriceCents: item.unitPriceCents ?? null,
     position: item.position,
     totalCents: lineTotalCents(toEstimateLine(item)),
-    cautions: item.kind === 'labor' ? cautionsFor(item.description) : [],
+    hazards,
+    cautions: cautionsFor(hazards),
   };
 }
 
@@ -336,6 +393,9 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     closedDaysOf(actor.networkId, job.shopId),
   ]);
 
+  const tags = await lineHazardsOf(actor.networkId, items);
+  const heavyCase = isHeavyCase(job.instrument!.family, job.instrument!.heavyCase ?? false);
+  const hazards = jobHazards(items, tags, heavyCase);
   const row = asRow(job);
   const roles = rolesFor(actor, job.shopId);
   const canUpdate = actor.ability.can('update', subject('Job', row) as never);
@@ -416,7 +476,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
           contactShown,
         }
       : null,
-    lineItems: items.map(lineDto),
+    lineItems: items.map((i) => lineDto(i, tags)),
+    safety: { hazards, heavyCase, cautions: cautionsFor(hazards) },
     totals,
     timeLogs,
     timeByTechnician: [...byTech.values()].sort((a, b) => b.minutes - a.minutes),
@@ -927,7 +988,8 @@ function catalogDto(item: ServiceCatalogItem): CatalogItemDto {
     standardHours: item.standardHours,
     skill: person(item.skill),
     active: item.active,
-    cautions: cautionsFor(item.name),
+    hazards: normaliseHazards(item.hazards ?? []),
+    cautions: cautionsFor(item.hazards ?? []),
   };
 }
 
@@ -966,7 +1028,9 @@ async function catalogItemById(networkId: string, id: string) {
 export async function createCatalogItem(actor: Actor, input: z.infer<typeof catalogItemSchema>): Promise<CatalogItemDto> {
   assertCan(actor.ability, 'create', 'ServiceCatalog', undefined, 'Only the owner edits the service catalog.');
   await checkSkill(actor.networkId, input.skillId);
-  const item = await ServiceCatalogItem.create({ networkId: actor.networkId, ...input, active: input.active ?? true });
+  const item = await ServiceCatalogItem.create({
+    networkId: actor.networkId, ...input, active: input.active ?? true, hazards: input.hazards ?? [],
+  });
   return catalogDto(await catalogItemById(actor.networkId, item.id));
 }
 

@@ -73,6 +73,8 @@ export class Instrument extends Model<InferAttributes<Instrument>, InferCreation
   declare assetTag: CreationOptional<string | null>;
   declare yearMade: CreationOptional<number | null>;
   declare notes: CreationOptional<string | null>;
+  /** Set at the desk when this instrument travels in a heavy case whatever its family (a double case, a flight case). */
+  declare heavyCase: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -116,6 +118,7 @@ Instrument.init(
     assetTag: DataTypes.TEXT,
     yearMade: DataTypes.INTEGER,
     notes: DataTypes.TEXT,
+    heavyCase: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

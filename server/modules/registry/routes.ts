@@ -5,6 +5,7 @@ import { notFound } from '../../lib/errors.js';
 import {
   createCustomerSchema,
   customerSearchSchema,
+  heavyCaseSchema,
   importBatchSchema,
   instrumentSearchSchema,
   intakeSchema,
@@ -21,6 +22,7 @@ import {
   intake,
   searchInstruments,
   searchCustomers,
+  setHeavyCase,
 } from './service.js';
 
 export const registryRouter = Router();
@@ -59,6 +61,11 @@ registryRouter.post('/api/instruments/import', requireActor, async (req, res) =>
 
 registryRouter.get('/api/instruments/:id', requireActor, async (req, res) => {
   res.json(await getInstrument(actorOf(req), instrumentId(req.params.id)));
+});
+
+registryRouter.patch('/api/instruments/:id/heavy-case', requireActor, async (req, res) => {
+  const { heavyCase } = heavyCaseSchema.parse(req.body);
+  res.json(await setHeavyCase(actorOf(req), instrumentId(req.params.id), heavyCase));
 });
 
 registryRouter.get('/api/instruments/:id/timeline', requireActor, async (req, res) => {

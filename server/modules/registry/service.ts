@@ -31,6 +31,7 @@ import type { CustomerView, ImportBatchResult, InstrumentHit, IntakeResult, Time
 
 export type { CustomerView, ImportBatchResult, InstrumentHit, IntakeResult, TimelineItem };
 import type { z } from 'zod';
+import { cautionsFor, isHeavyCase } from '../../../shared/safety/hazards.js';
 
 // ---------------------------------------------------------------------------------------------
 // Permissions as SQL
@@ -421,6 +422,8 @@ export async function getInstrument(actor: Actor, id: string) {
       serialNormalized: instrument.serialNormalized, assetTag: instrument.assetTag, status: instrument.status,
       yearMade: instrument.yearMade, notes: instrument.notes, ownerKind: instrument.ownerKind,
       currentShop: shopRef(instrument.currentShopId), createdAt: instrument.createdAt,
+      heavyCaseFlag: instrument.heavyCase, heavyCase: isHeavyCase(instrument.family, instrument.heavyCase),
+      canUpdate: actor.ability.can('update', asSubject('Instrument', { currentShopId: instrument.currentShopId }) as never),
     },
     owner,
     openJob: jobViews.find((j) => j.open) ?? null,
@@ -435,6 +438,28 @@ export async function getInstrument(actor: Actor, id: string) {
   };
 }
 
+
+/**
+ * The desk marks an instrument that travels in a heavy case whatever its family, so intake, hand-back and
+ * transfers show the lifting caution for it. Written to the timeline, as every change to an instrument is.
+ */
+export async function setHeavyCase(actor: Actor, id: string, heavyCase: boolean) {
+  await sequelize.transaction(async (transaction) => {
+    const instrument = await loadReadableInstrument(actor, id, transaction);
+    assertCan(actor.ability, 'update', 'Instrument', { currentShopId: instrument.currentShopId }, 'Only the shop that holds this instrument can change it.');
+    if (instrument.heavyCase === heavyCase) return;
+    await instrument.update({ heavyCase }, { transaction });
+    await HistoryEvent.create(
+      {
+        networkId: actor.networkId, instrumentId: instrument.id, shopId: instrument.currentShopId, userId: actor.id, kind: 'details_changed',
+        summary: heavyCase ? 'Marked as travelling in a heavy case' : 'No longer marked as travelling in a heavy case',
+        data: { changes: { heavyCase: { from: !heavyCase, to: heavyCase } } },
+      },
+      { transaction },
+    );
+  });
+  return getInstrument(actor, id);
+}
 
 export const TIMELINE_MAX = 1_000;
 
@@ -636,10 +661,11 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
     const earlier = await findJobOpenedBy(actor, input.requestKey, transaction);
     if (earlier) {
       const inst = await Instrument.findOne({ where: { networkId, id: earlier.instrumentId }, ...t });
+      const heavy = isHeavyCase(inst!.family, inst!.heavyCase);
       return {
         job: { id: earlier.id, number: earlier.number, stage: earlier.stage, shopId: earlier.shopId },
-        instrument: { id: inst!.id, serial: inst!.serial, maker: inst!.maker, assetTag: inst!.assetTag },
-        customerId: earlier.customerId, warnings: [], replayed: true,
+        instrument: { id: inst!.id, serial: inst!.serial, maker: inst!.maker, assetTag: inst!.assetTag, heavyCase: heavy },
+        customerId: earlier.customerId, warnings: [], cautions: heavy ? cautionsFor(['heavy_lift']) : [], replayed: true,
       };
     }
 
@@ -683,7 +709,7 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
           networkId, family: newInstrument.family, maker: newInstrument.maker, model: newInstrument.model ?? null,
           serial: newInstrument.serial, yearMade: newInstrument.yearMade ?? null, notes: newInstrument.notes ?? null,
           assetTag: tag ?? newAssetTag(), ownerKind, ownerCustomerId: ownerKind === 'rental_fleet' ? null : customerId,
-          currentShopId: shop.id, status: 'in_shop',
+          currentShopId: shop.id, status: 'in_shop', heavyCase: newInstrument.heavyCase ?? false,
         },
         t,
       );
@@ -705,10 +731,11 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
       },
       transaction,
     );
+    const heavy = isHeavyCase(instrument!.family, instrument!.heavyCase);
     return {
       job: { id: job.id, number: job.number, stage: job.stage, shopId: job.shopId },
-      instrument: { id: instrument!.id, serial: instrument!.serial, maker: instrument!.maker, assetTag: instrument!.assetTag },
-      customerId, warnings, replayed: false,
+      instrument: { id: instrument!.id, serial: instrument!.serial, maker: instrument!.maker, assetTag: instrument!.assetTag, heavyCase: heavy },
+      customerId, warnings, cautions: heavy ? cautionsFor(['heavy_lift']) : [], replayed: false,
     };
   });
 }

@@ -7,7 +7,8 @@ import {
   type NonAttribute,
 } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
-import { decimalColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
+import type { Hazard } from '../../../shared/safety/hazards.js';
+import { decimalColumn, hazardsColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
 
 export const PART_KINDS = ['pad', 'other'] as const;
 export type PartKind = (typeof PART_KINDS)[number];
@@ -25,6 +26,8 @@ export class Part extends Model<InferAttributes<Part>, InferCreationAttributes<P
   declare diameterMm: CreationOptional<number | null>;
   declare thicknessMm: CreationOptional<number | null>;
   declare unitPriceCents: number;
+  /** Set by the owner: the hazards of using this part (pad cement: adhesive and heat), shown on the job's line. */
+  declare hazards: CreationOptional<Hazard[]>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -42,6 +45,7 @@ Part.init(
     diameterMm: decimalColumn('diameterMm', 6, 2),
     thicknessMm: decimalColumn('thicknessMm', 5, 2),
     unitPriceCents: { type: DataTypes.INTEGER, allowNull: false, validate: { min: 0 } },
+    hazards: hazardsColumn(),
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

@@ -10,7 +10,9 @@ import {
   releaseReservationsOfJob,
   requestPartTransfer,
   sendPartTransfer,
+  setPartHazards,
 } from './service.js';
+import { hazardsSchema } from '../../../shared/safety/hazards.js';
 
 /** An id from the path that is not a uuid names nothing: answer 404 rather than a database error. */
 const uuid = z.uuid();
@@ -54,6 +56,13 @@ stockRouter.patch('/api/stock/:shopId/parts/:partId', requireActor, async (req, 
   const shopId = idParam(req.params.shopId, 'That shop');
   const partId = idParam(req.params.partId, 'That part');
   res.json(await adjustStock(actor, shopId, partId, adjustBody.parse(req.body)));
+});
+
+const hazardsBody = z.object({ hazards: hazardsSchema });
+
+stockRouter.put('/api/parts/:partId/hazards', requireActor, async (req, res) => {
+  const partId = idParam(req.params.partId, 'That part');
+  res.json(await setPartHazards(actorOf(req), partId, hazardsBody.parse(req.body).hazards));
 });
 
 stockRouter.post('/api/stock/part-transfers', requireActor, async (req, res) => {

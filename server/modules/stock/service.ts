@@ -9,6 +9,7 @@ import { badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import type { PadCatalog } from '../../../shared/padmap/compute.js';
 import type { PadKind } from '../../../shared/padmap/rules.js';
 import { PartTransfer, type PartTransferState } from './models.js';
+import { cautionsFor, normaliseHazards, type Hazard } from '../../../shared/safety/hazards.js';
 import { notify, peopleAt } from '../notifications/service.js';
 
 /**
@@ -397,6 +398,8 @@ export interface StockRow extends PartSummary {
   incoming: number;
   belowReorderPoint: boolean;
   source: SourceSuggestion | null;
+  /** The owner's hazard tags on this part (shown on every job line that uses it). */
+  hazards: Hazard[];
 }
 
 export async function listStock(actor: Actor, query: { shopId: string; kind?: 'pad' | 'other'; attention?: boolean; q?: string }) {
@@ -405,8 +408,9 @@ export async function listStock(actor: Actor, query: { shopId: string; kind?: 'p
   const rows = await sequelize.query<{
     id: string; sku: string; name: string; kind: 'pad' | 'other'; pad_kind: PadKind | null; diameter_mm: string | null; thickness_mm: string | null;
     unit_price_cents: number; on_hand: number | null; reserved: number | null; reorder_point: number | null; incoming: number;
+    hazards: Hazard[];
   }>(
-    `select p.id, p.sku, p.name, p.kind, p.pad_kind, p.diameter_mm, p.thickness_mm, p.unit_price_cents,
+    `select p.id, p.sku, p.name, p.kind, p.pad_kind, p.diameter_mm, p.thickness_mm, p.unit_price_cents, p.hazards,
             sl.on_hand, sl.reserved, sl.reorder_point,
             coalesce((select sum(pt.quantity) from part_transfers pt
                        where pt.network_id = p.network_id and pt.part_id = p.id and pt.to_shop_id = :shopId
@@ -440,6 +444,7 @@ export async function listStock(actor: Actor, query: { shopId: string; kind?: 'p
       incoming: Number(r.incoming),
       belowReorderPoint: reorderPoint > 0 && onHand - reserved <= reorderPoint,
       source: null,
+      hazards: normaliseHazards(r.hazards ?? []),
     };
   });
   if (query.attention) stock = stock.filter((r) => r.shortage > 0 || r.belowReorderPoint);
@@ -460,8 +465,19 @@ export async function listStock(actor: Actor, query: { shopId: string; kind?: 'p
       pack: actor.ability.can('pack', subjectOf(shop.id)),
       request: actor.ability.can('request', subjectOf(shop.id)),
       receive: actor.ability.can('receive', subjectOf(shop.id)),
+      // parts are the network's, like the service catalog: their hazard tags are the owner's to set
+      setHazards: actor.ability.can('update', 'ServiceCatalog'),
     },
   };
+}
+
+/** The owner tags a part with the hazards of using it (pad cement: adhesive and heat). */
+export async function setPartHazards(actor: Actor, partId: string, hazards: Hazard[]) {
+  const part = await Part.findOne({ where: { networkId: actor.networkId, id: partId } });
+  if (!part) throw notFound('That part');
+  assertCan(actor.ability, 'update', 'ServiceCatalog', undefined, 'Only the owner sets the hazards of parts.');
+  await part.update({ hazards: normaliseHazards(hazards) });
+  return { part: { id: part.id, sku: part.sku, name: part.name, hazards: part.hazards, cautions: cautionsFor(part.hazards) } };
 }
 
 const subjectOf = (shopId: string) => subject('Stock', { shopId }) as never;

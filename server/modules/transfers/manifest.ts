@@ -1,7 +1,8 @@
 import PDFDocument from 'pdfkit';
 import QRCode from 'qrcode';
 import { INSTRUMENT_FAMILY_LABELS, type InstrumentFamily } from '../../../shared/domain.js';
-import { LIFTING_CAUTION, TRANSFER_STATE_LABELS } from '../../../shared/transfers.js';
+import { TRANSFER_STATE_LABELS } from '../../../shared/transfers.js';
+import { LIFTING_CAUTION } from '../../../shared/safety/hazards.js';
 import { formatWeekdays, formatHours } from '../../../shared/routing/rank.js';
 import { zoneLabel } from '../../../shared/routing/zoned.js';
 import { formatDate, formatDateTime } from '../../../shared/time/format.js';

@@ -35,11 +35,11 @@ import {
   TRANSFER_STATE_LABELS,
   TRANSFER_TRANSITIONS,
   canMove,
-  isHeavyCase,
   type CreateTransferInput,
   type TransferView,
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
+import { isHeavyCase, LIFTING_CAUTION } from '../../../shared/safety/hazards.js';
 import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
 import { renderManifest } from './manifest.js';
 import {
@@ -218,7 +218,7 @@ export async function getTransfer(actor: Actor, id: string) {
       currentShopId: t.instrument.currentShopId,
       status: t.instrument.status,
     },
-    heavyCase: isHeavyCase(t.instrument.family),
+    heavyCase: isHeavyCase(t.instrument.family, t.instrument.heavyCase ?? false),
     requestedBy: person(t.requestedBy),
     approvedBy: person(t.approvedBy),
     packedBy: person(t.packedBy),
@@ -359,6 +359,7 @@ export async function recommendDestinations(actor: Actor, input: { jobId: string
       maker: job.instrument.maker,
       model: job.instrument.model,
       serial: job.instrument.serial,
+      heavyCase: isHeavyCase(job.instrument.family, job.instrument.heavyCase ?? false),
     },
     transferable: TRANSFERABLE_STAGES.includes(job.stage) && !openTransfer,
     openTransferId: openTransfer?.id ?? null,
@@ -535,7 +536,7 @@ export async function packTransfer(
   // packing happens at the origin: the permission must come from there
   assertCan(actor.ability, 'pack', 'Transfer', { fromShopId: t.fromShopId }, 'Packing is done by the shop the instrument leaves.');
   requireMove(t, 'packed');
-  if (isHeavyCase(t.instrument.family) && !input.liftingAcknowledged) {
+  if (isHeavyCase(t.instrument.family, t.instrument.heavyCase ?? false) && !input.liftingAcknowledged) {
     throw badRequest('Confirm the lifting caution before packing a heavy case.', {
       liftingAcknowledged: 'Confirm you have read the lifting caution: two people or a cart.',
     });
@@ -669,6 +670,9 @@ function describeStep(t: Bundle, to: TransferState, data: TransferStepData, acto
   }
 }
 
+/** Steps after which someone at either shop lifts the case: packing, handing over, carrying it in. */
+const LIFTING_STATES: TransferState[] = ['approved', 'packed', 'in_transit', 'received'];
+
 const HISTORY_KIND: Record<TransferState, string> = {
   requested: 'transfer_requested',
   approved: 'transfer_approved',
@@ -768,6 +772,8 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     }
 
     const text = describeStep(t, to, data, actorName);
+    // the people who will lift a heavy case read the lifting caution in the notice and the e-mail itself
+    const liftingNote = isHeavyCase(t.instrument.family, t.instrument.heavyCase ?? false) && LIFTING_STATES.includes(to) ? `\n\n${LIFTING_CAUTION}` : '';
     await HistoryEvent.create(
       {
         networkId, instrumentId: instrument.id, jobId: job.id, shopId: to === 'received' ? t.toShopId : t.fromShopId,
@@ -790,9 +796,9 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     const recipients = [...new Set([...staff, ...owners])].filter((id) => id !== data.actorUserId);
     await notify(
       {
-        networkId, kind: 'transfer_incoming', userIds: recipients, title: text.title, body: text.body,
+        networkId, kind: 'transfer_incoming', userIds: recipients, title: text.title, body: text.body + liftingNote,
         link: `/transfers/${transferId}`, dedupeKey: key,
-        email: { subject: `${text.title} (job ${job.number})`, text: text.body },
+        email: { subject: `${text.title} (job ${job.number})`, text: text.body + liftingNote },
       },
       transaction,
     );
@@ -847,7 +853,7 @@ export async function writeManifest(networkId: string, transferId: string) {
     caseCount: t.caseCount ?? 1,
     contents: t.contents,
     departureCondition: t.departureCondition,
-    heavyCase: isHeavyCase(t.instrument.family),
+    heavyCase: isHeavyCase(t.instrument.family, t.instrument.heavyCase ?? false),
     generatedAt: new Date(),
   });
   const key = manifestKeyFor(networkId, transferId);

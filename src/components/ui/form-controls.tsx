@@ -62,17 +62,3 @@ export function FormError({ message }: { message?: string | null }) {
   );
 }
 
-/** A safety reminder: shown wherever a step can hurt someone. */
-export function Caution({ children, className }: { children: ReactNode; className?: string }) {
-  return (
-    <p className={cn('flex gap-2 rounded-lg border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-ink-950', className)}>
-      <span aria-hidden="true" className="font-bold">
-        ⚠
-      </span>
-      <span>
-        <span className="sr-only">Caution: </span>
-        {children}
-      </span>
-    </p>
-  );
-}

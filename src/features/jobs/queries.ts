@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import type { BoardResponse, CatalogItemDto, JobDetail, JobSummary, PersonRef } from '@shared/jobs/dto';
+import type { BenchJob, BoardResponse, CatalogItemDto, JobDetail, JobSummary, PersonRef } from '@shared/jobs/dto';
 import type { JobStage } from '@shared/domain';
 
 /** Filters of the job board as they sit in the address bar (all strings, `shop` always present). */
@@ -45,7 +45,7 @@ export function boardQueryOptions(params: BoardParams) {
 export function myBenchQueryOptions() {
   return queryOptions({
     queryKey: jobKeys.mine(),
-    queryFn: ({ signal }) => api.get<{ jobs: JobSummary[] }>('/api/jobs/mine', signal),
+    queryFn: ({ signal }) => api.get<{ jobs: BenchJob[] }>('/api/jobs/mine', signal),
     select: (data) => data.jobs,
   });
 }

@@ -87,4 +87,5 @@ export const registryMutations = {
   intake: (input: IntakeInput) => api.post<IntakeResult>('/api/intake', input),
   createCustomer: (input: CustomerInput & { shopId: string }) => api.post<{ customer: CustomerView }>('/api/customers', input),
   importBatch: (input: ImportBatchInput) => api.post<ImportBatchResult>('/api/instruments/import', input),
+  setHeavyCase: (id: string, heavyCase: boolean) => api.patch<InstrumentDetail>(`/api/instruments/${encodeURIComponent(id)}/heavy-case`, { heavyCase }),
 };

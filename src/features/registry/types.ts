@@ -34,6 +34,10 @@ export interface InstrumentDetail {
     ownerKind: OwnerKind;
     currentShop: ShopRef | null;
     createdAt: string;
+    /** The desk's own flag; `heavyCase` also counts the heavy families. */
+    heavyCaseFlag: boolean;
+    heavyCase: boolean;
+    canUpdate: boolean;
   };
   owner: CustomerView | null;
   openJob: InstrumentJob | null;

@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
+import type { Hazard } from '@shared/safety/hazards';
 import type { PartTransferView, StockFilters, StockPage } from './types';
 
 export const stockKeys = {
@@ -25,6 +26,16 @@ export function useAdjustStock(shopId: string) {
   return useMutation({
     mutationFn: (input: { partId: string; onHand?: number; reorderPoint?: number }) =>
       api.patch(`/api/stock/${encodeURIComponent(shopId)}/parts/${encodeURIComponent(input.partId)}`, { onHand: input.onHand, reorderPoint: input.reorderPoint }),
+    onSettled: () => client.invalidateQueries({ queryKey: stockKeys.all }),
+  });
+}
+
+/** The owner's hazard tags on a part (network-wide, like the service catalog). */
+export function useSetPartHazards() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { partId: string; hazards: Hazard[] }) =>
+      api.put(`/api/parts/${encodeURIComponent(input.partId)}/hazards`, { hazards: input.hazards }),
     onSettled: () => client.invalidateQueries({ queryKey: stockKeys.all }),
   });
 }

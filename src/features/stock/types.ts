@@ -1,3 +1,4 @@
+import type { Hazard } from '@shared/safety/hazards';
 /** Bodies of the stock API (server/modules/stock). */
 
 export interface StockSource {
@@ -26,6 +27,7 @@ export interface StockRow {
   incoming: number;
   belowReorderPoint: boolean;
   source: StockSource | null;
+  hazards: Hazard[];
 }
 
 export interface PartTransferView {
@@ -49,7 +51,7 @@ export interface StockPage {
   rows: StockRow[];
   totals: { parts: number; short: number; belowReorderPoint: number };
   transfers: { incoming: PartTransferView[]; outgoing: PartTransferView[] };
-  can: { update: boolean; pack: boolean; request: boolean; receive: boolean };
+  can: { update: boolean; pack: boolean; request: boolean; receive: boolean; setHazards: boolean };
 }
 
 export interface StockFilters {

@@ -92,7 +92,7 @@ export interface Recommendation {
     complaint: string;
     estimatedHours: number | null;
     shop: ShopBrief;
-    instrument: { family: InstrumentFamily; maker: string; model: string | null; serial: string };
+    instrument: { family: InstrumentFamily; maker: string; model: string | null; serial: string; heavyCase: boolean };
     transferable: boolean;
     openTransferId: string | null;
   };

@@ -19,13 +19,13 @@ describe('POST /api/instruments/import', () => {
 
   // rows as the client sends them after the column mapping: spreadsheet row numbers, text cells
   const file = () => [
-    { row: 2, serial: 'AB-104 233', maker: 'Aldmoor', family: 'Alto Sax', model: 'AS-300', assetTag: 'qp-001', yearMade: '2016' },
-    { row: 3, serial: '7719204', maker: 'Veyron Winds', family: 'alto saxophone', model: 'Meridian Alto', yearMade: '' },
+    { row: 2, serial: 'AB-104 233', maker: 'Aldmoor', family: 'Alto Sax', model: 'Fenlark Alto', assetTag: 'qp-001', yearMade: '2016' },
+    { row: 3, serial: '7719204', maker: 'Skelmire Winds', family: 'alto saxophone', model: 'Skelmire Alto', yearMade: '' },
     { row: 4, serial: '', maker: 'Aldmoor', family: 'tenor sax' }, // no serial
     { row: 5, serial: 'Q 771 002', maker: 'Quellstone', family: 'kazoo' }, // unknown family
     { row: 6, serial: 'ab104233', maker: 'ALDMOOR', family: 'alto sax' }, // the same instrument as row 2
     { row: 7, serial: 'HF/20331', maker: 'Harrowgate & Finch', family: 'clarinet', yearMade: '1492' }, // year too early
-    { row: 8, serial: 'BM.12.613', maker: 'Brassmere', family: 'Trumpet', model: 'BT-200', notes: 'Third slide stiff' },
+    { row: 8, serial: 'BM.12.613', maker: 'Brassmere', family: 'Trumpet', model: 'Gullstep Trumpet', notes: 'Third slide stiff' },
   ];
   const send = (cookie: string, rows: unknown[], over: Record<string, unknown> = {}) =>
     request(app)
@@ -84,18 +84,18 @@ describe('POST /api/instruments/import', () => {
   });
 
   it('a corrected file updates the instruments it names, still without duplicates', async () => {
-    const corrected = file().map((r) => (r.row === 3 ? { ...r, model: 'Meridian Alto II', serial: '77-19-204' } : r));
+    const corrected = file().map((r) => (r.row === 3 ? { ...r, model: 'Skelmire Alto Lacquered', serial: '77-19-204' } : r));
     const res = await send(deskCookie, corrected).expect(200);
     expect(res.body.counts).toMatchObject({ created: 0, updated: 1, unchanged: 2 });
     expect(await count()).toBe(3);
     const alto = await Instrument.findOne({ where: { networkId, serialNormalized: '7719204' } });
-    expect(alto!.model).toBe('Meridian Alto II');
+    expect(alto!.model).toBe('Skelmire Alto Lacquered');
     expect(alto!.assetTag).toMatch(/^BR-/); // the tag made at the first import is kept
     // the change is on the instrument's timeline: one event saying what changed, from what to what
     const events = await HistoryEvent.findAll({ where: { networkId, instrumentId: alto!.id, kind: 'details_changed' } });
     expect(events).toHaveLength(1);
     expect(events[0].summary).toBe('Details changed by a fleet import at Cedar Lane bench: model');
-    expect(events[0].data).toMatchObject({ source: 'fleet_import', row: 3, changes: { model: { from: 'Meridian Alto', to: 'Meridian Alto II' } } });
+    expect(events[0].data).toMatchObject({ source: 'fleet_import', row: 3, changes: { model: { from: 'Skelmire Alto', to: 'Skelmire Alto Lacquered' } } });
     expect(Object.keys(events[0].data.changes as object)).toEqual(['model']);
     expect(events[0].userId).toBeTruthy();
   });

@@ -22,7 +22,7 @@ describe('POST /api/intake and openJob', () => {
   const body = (over: Record<string, unknown> = {}) => ({
     shopId: shopA.id,
     requestKey: randomUUID(),
-    instrument: { new: { serial: `ZX-${Math.floor(Math.random() * 1e8)}`, maker: 'Aldmoor', family: 'alto_saxophone', model: 'AS-300', ownerKind: 'customer' } },
+    instrument: { new: { serial: `ZX-${Math.floor(Math.random() * 1e8)}`, maker: 'Aldmoor', family: 'alto_saxophone', model: 'Fenlark Alto', ownerKind: 'customer' } },
     customer: { new: { kind: 'person', name: 'Wren Halvorsen', phone: '+1 555 0142', email: 'wren@mail.test' } },
     job: { complaint: 'Low notes gurgle below D', conditionNotes: 'Case latch broken' },
     ...over,

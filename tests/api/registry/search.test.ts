@@ -32,13 +32,13 @@ describe('GET /api/instruments/search', () => {
     const auditor = await makeUser(net.id, [{ shopId: shopB.id, role: 'auditor' }]);
     const add = (serial: string, maker: string, over: Partial<{ shop: string; family: 'alto_saxophone' | 'trumpet' | 'flute'; tag: string }> = {}) =>
       Instrument.create({
-        networkId: net.id, family: over.family ?? 'alto_saxophone', maker, model: 'AS-300', serial, ownerKind: 'rental_fleet',
+        networkId: net.id, family: over.family ?? 'alto_saxophone', maker, model: 'Fenlark Alto', serial, ownerKind: 'rental_fleet',
         currentShopId: over.shop ?? shopA.id, assetTag: over.tag ?? null,
       });
     target = await add('AB-104 233', 'Aldmoor', { tag: 'SCH-0042' });
     await add('AB1042330', 'Aldmoor'); // longer serial that starts with the target's
     await add('AB-104 234', 'Aldmoor'); // one digit away
-    await add('7719204', 'Veyron Winds', { shop: shopB.id });
+    await add('7719204', 'Skelmire Winds', { shop: shopB.id });
     await add('7719204', 'Corvell Band Works', { family: 'trumpet', shop: shopB.id }); // same serial, other maker
     await add('XQ-AB 104 233', 'Quellstone', { family: 'flute' }); // contains the target's digits
     for (let n = 0; n < 30; n++) await add(`ZZ-${String(n).padStart(4, '0')}`, 'Tamsin Vale', { family: 'flute' });
@@ -104,7 +104,7 @@ describe('GET /api/instruments/search', () => {
   it('gives family, maker, model, current shop and open job with each result', async () => {
     const res = await search(deskCookie, 'AB104233');
     expect(res.body.results[0]).toMatchObject({
-      family: 'alto_saxophone', maker: 'Aldmoor', model: 'AS-300',
+      family: 'alto_saxophone', maker: 'Aldmoor', model: 'Fenlark Alto',
       currentShop: { id: shopA.id, name: 'Alder Street bench' },
       openJob: { number: openJobNumber, stage: 'on_bench', shopId: shopA.id, shopName: 'Alder Street bench' },
     });
@@ -114,7 +114,7 @@ describe('GET /api/instruments/search', () => {
 
   it('shows both makers of a shared serial, and filters by family', async () => {
     const both = await search(deskCookie, '7719204');
-    expect(both.body.results.map((r: { maker: string }) => r.maker).sort()).toEqual(['Corvell Band Works', 'Veyron Winds']);
+    expect(both.body.results.map((r: { maker: string }) => r.maker).sort()).toEqual(['Corvell Band Works', 'Skelmire Winds']);
     const trumpets = await search(deskCookie, '7719204', { family: 'trumpet' });
     expect(trumpets.body.results.map((r: { maker: string }) => r.maker)).toEqual(['Corvell Band Works']);
   });
@@ -135,7 +135,7 @@ describe('GET /api/instruments/search', () => {
       .query({ serial: '77-19-204', maker: 'veyron  winds' })
       .set('Cookie', deskCookie)
       .expect(200);
-    expect(res.body.sameMaker).toMatchObject({ maker: 'Veyron Winds' });
+    expect(res.body.sameMaker).toMatchObject({ maker: 'Skelmire Winds' });
     expect(res.body.otherMakers.map((r: { maker: string }) => r.maker)).toEqual(['Corvell Band Works']);
   });
 
@@ -146,7 +146,7 @@ describe('GET /api/instruments/search', () => {
     const lines = res.text.replace(/^\uFEFF/, '').trim().split(/\r?\n/);
     expect(lines[0]).toBe('Serial number,Maker,Model,Family,Asset tag,Status,Current shop,Open job,Job stage');
     expect(lines).toHaveLength(3);
-    expect(lines.slice(1).join('\n')).toContain('7719204,Corvell Band Works,AS-300,Trumpet');
+    expect(lines.slice(1).join('\n')).toContain('7719204,Corvell Band Works,Fenlark Alto,Trumpet');
   });
 
   it('refuses bad input and strangers', async () => {

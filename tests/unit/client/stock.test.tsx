@@ -31,6 +31,7 @@ const page: StockPage = {
       partId: 'p-30', sku: 'PAD-S-30.0', name: 'Self-leveling pad 30.0 mm × 3.6 mm', kind: 'pad', padKind: 'self_leveling', diameterMm: 30, thicknessMm: 3.6, unitPriceCents: 610,
       onHand: 1, reserved: 3, reorderPoint: 2, available: -2, shortage: 2, incoming: 0, belowReorderPoint: true,
       source: { shopId: 'shop-2', shopName: 'Mill Lane Woodwinds', free: 5, distanceKm: 232, relayRun: true, coversAll: true },
+      hazards: ['adhesive'],
     },
   ],
   totals: { parts: 1, short: 1, belowReorderPoint: 1 },
@@ -44,7 +45,7 @@ const page: StockPage = {
     ],
     outgoing: [],
   },
-  can: { update: false, pack: false, request: true, receive: true },
+  can: { update: false, pack: false, request: true, receive: true, setHazards: false },
 };
 
 function renderStock() {

@@ -36,8 +36,8 @@ describe('normalizeSerial', () => {
 
 describe('normalizeMaker', () => {
   it('lower-cases, trims and collapses whitespace', () => {
-    expect(normalizeMaker('  Veyron   Winds ')).toBe('veyron winds');
-    expect(normalizeMaker('VEYRON\tWINDS')).toBe('veyron winds');
+    expect(normalizeMaker('  Skelmire   Winds ')).toBe('skelmire winds');
+    expect(normalizeMaker('VEYRON\tWINDS')).toBe('skelmire winds');
   });
 
   it('keeps punctuation that distinguishes makers', () => {

@@ -10,7 +10,8 @@ import {
 } from '@shared/jobs/estimate';
 import type { JobDetail, LineItemDto } from '@shared/jobs/dto';
 import { Button } from '@/components/ui/button';
-import { Caution, controlClasses, Field, FormError } from '@/components/ui/form-controls';
+import { controlClasses, Field, FormError } from '@/components/ui/form-controls';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { catalogQueryOptions, jobApi, useJobMutation } from '../queries';
@@ -115,9 +116,7 @@ export function EstimateEditor({ detail }: { detail: JobDetail }) {
                   )}
                 </div>
                 {invalid ? <p className="text-sm text-danger-700">{amountProblem(draft ?? '') ?? 'Enter a number above zero.'}</p> : null}
-                {item.cautions.map((c) => (
-                  <Caution key={c}>{c}</Caution>
-                ))}
+                <HazardCautions cautions={item.cautions} label={`Safety cautions for ${item.description}`} />
               </li>
             );
           })}
@@ -201,9 +200,7 @@ function AddLaborForm({ detail }: { detail: JobDetail }) {
       >
         <input inputMode="decimal" className={controlClasses} value={hours} placeholder={chosen ? String(chosen.standardHours) : ''} onChange={(e) => setHours(e.target.value)} />
       </Field>
-      {chosen?.cautions.map((c) => (
-        <Caution key={c}>{c}</Caution>
-      ))}
+      {chosen ? <HazardCautions cautions={chosen.cautions} label={`Safety cautions for ${chosen.name}`} /> : null}
       {preview !== null ? <p className="text-sm text-ink-800">This line: {formatCents(preview)}</p> : null}
       <FormError message={add.error && !Object.keys(errors).length ? errorText(add.error) : null} />
       <Button type="submit" disabled={!chosen || add.isPending}>

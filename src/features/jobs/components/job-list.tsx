@@ -1,4 +1,5 @@
 import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
+import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import type { JobSummary } from '@shared/jobs/dto';
 import { familyLabel, formatPromise } from '../format';
@@ -11,14 +12,16 @@ interface JobListProps {
   /** Show which shop each job is at (my bench across several shops). */
   showShop?: boolean;
   label: string;
+  /** Shown under a job's card, outside its link (My bench puts the job's safety cautions there). */
+  below?: (job: JobSummary) => ReactNode;
 }
 
 /** Jobs as cards: one column on a phone, readable at arm's length at the bench. */
-export function JobList({ jobs, linkTo, showShop = false, label }: JobListProps) {
+export function JobList({ jobs, linkTo, showShop = false, label, below }: JobListProps) {
   return (
     <ul aria-label={label} className="grid gap-3 md:grid-cols-2 xl:grid-cols-3">
       {jobs.map((job) => (
-        <li key={job.id}>
+        <li key={job.id} className="flex flex-col gap-2">
           <Link
             to={linkTo(job)}
             className="flex h-full flex-col gap-2 rounded-2xl border border-paper-200 bg-white p-4 hover:border-accent-200 hover:bg-accent-50/40"
@@ -56,6 +59,7 @@ export function JobList({ jobs, linkTo, showShop = false, label }: JobListProps)
               ) : null}
             </dl>
           </Link>
+          {below?.(job)}
         </li>
       ))}
     </ul>

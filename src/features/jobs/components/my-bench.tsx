@@ -1,6 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
-import type { JobSummary } from '@shared/jobs/dto';
+import type { BenchJob, JobSummary } from '@shared/jobs/dto';
 import { EmptyState } from '@/components/ui/empty-state';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { ErrorState } from '@/components/ui/error-state';
 import { Spinner } from '@/components/ui/spinner';
 import { myBenchQueryOptions } from '../queries';
@@ -30,7 +31,15 @@ export function MyBench({ linkTo }: { linkTo: (job: JobSummary) => string }) {
         {mine.data.length} {mine.data.length === 1 ? 'job' : 'jobs'}
         {overdue ? `, ${overdue} overdue` : ''}
       </p>
-      <JobList jobs={mine.data} linkTo={linkTo} showShop={shops.size > 1} label="My jobs" />
+      <JobList
+        jobs={mine.data}
+        linkTo={linkTo}
+        showShop={shops.size > 1}
+        label="My jobs"
+        below={(job) => (
+          <HazardCautions hazards={(job as BenchJob).hazards} label={`Safety cautions for job ${job.number}`} compact />
+        )}
+      />
     </div>
   );
 }

@@ -7,7 +7,9 @@ import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
 import { ErrorState } from '@/components/ui/error-state';
 import { controlClasses, FormError } from '@/components/ui/form-controls';
+import { HazardCheckboxes } from '@/components/ui/hazard-checkboxes';
 import { Spinner } from '@/components/ui/spinner';
+import type { Hazard } from '@shared/safety/hazards';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { catalogQueryOptions, jobApi, jobKeys } from '../queries';
@@ -19,6 +21,7 @@ interface Draft {
   standardHours: string;
   skillId: string;
   active: boolean;
+  hazards: Hazard[];
 }
 
 const toDraft = (i?: CatalogItemDto): Draft => ({
@@ -27,6 +30,7 @@ const toDraft = (i?: CatalogItemDto): Draft => ({
   standardHours: i ? String(i.standardHours) : '',
   skillId: i?.skill?.id ?? '',
   active: i?.active ?? true,
+  hazards: i?.hazards ?? [],
 });
 
 const toBody = (d: Draft) => ({
@@ -35,6 +39,7 @@ const toBody = (d: Draft) => ({
   standardHours: Number(d.standardHours),
   skillId: d.skillId || null,
   active: d.active,
+  hazards: d.hazards,
 });
 
 const hoursOk = (text: string) => /^\d+([.]\d+)?$/.test(text) && hasAtMostTwoDecimals(Number(text));
@@ -75,7 +80,7 @@ export function ServiceCatalogEditor() {
               <th scope="col" className="px-3 py-3"><span className="sr-only">Save</span></th>
             </tr>
           </thead>
-          <tbody className="divide-y divide-paper-200">
+          <tbody>
             <CatalogRow key="new" skills={catalog.data.skills} />
             {catalog.data.items.map((item) => (
               <CatalogRow key={item.id} item={item} skills={catalog.data.skills} />
@@ -111,8 +116,10 @@ function CatalogRow({ item, skills }: { item?: CatalogItemDto; skills: PersonRef
     save.mutate(draft);
   };
   const formId = `catalog-${item?.id ?? 'new'}`;
+  const rowClass = cn(!item && 'bg-accent-50/40', item && !item.active && 'text-ink-600');
   return (
-    <tr className={cn(!item && 'bg-accent-50/40', item && !item.active && 'text-ink-600')}>
+    <>
+    <tr className={cn(rowClass, 'border-t border-paper-200')}>
       <td className="px-3 py-2 align-top">
         <form id={formId} onSubmit={submit} />
         <input
@@ -174,5 +181,11 @@ function CatalogRow({ item, skills }: { item?: CatalogItemDto; skills: PersonRef
         <FormError message={save.error && !Object.keys(errors).length ? (isApiError(save.error) ? save.error.message : 'Not saved.') : null} />
       </td>
     </tr>
+    <tr className={rowClass}>
+      <td colSpan={6} className="px-3 pb-3">
+        <HazardCheckboxes of={label} form={formId} value={draft.hazards} onChange={(hazards) => set({ hazards })} error={errors.hazards} />
+      </td>
+    </tr>
+    </>
   );
 }

@@ -1,4 +1,8 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
+import { isApiError } from '@/lib/api-client';
+import { registryKeys, registryMutations } from '../queries';
 import { Card, CardTitle } from '@/components/ui/card';
 import { OWNER_KIND_LABELS, CUSTOMER_KIND_LABELS } from '@shared/schemas/registry';
 import { familyLabel, formatDay, formatInZone, stageLabel, statusLabel } from '../format';
@@ -39,7 +43,39 @@ export function InstrumentFacts({ detail }: { detail: InstrumentDetail }) {
           <dd className="text-ink-950">{i.notes}</dd>
         </div>
       ) : null}
+      <div className="flex flex-col gap-2 sm:col-span-2">
+        <dt className="text-sm text-ink-600">Case</dt>
+        <dd className="flex flex-col gap-2 text-ink-950">
+          <HeavyCaseFlag detail={detail} />
+          {i.heavyCase ? <HazardCautions hazards={['heavy_lift']} /> : null}
+        </dd>
+      </div>
     </dl>
+  );
+}
+
+/** The desk marks an instrument that travels in a heavy case whatever its family. */
+function HeavyCaseFlag({ detail }: { detail: InstrumentDetail }) {
+  const i = detail.instrument;
+  const client = useQueryClient();
+  const save = useMutation({
+    mutationFn: (heavyCase: boolean) => registryMutations.setHeavyCase(i.id, heavyCase),
+    onSettled: () => client.invalidateQueries({ queryKey: registryKeys.instrument(i.id) }),
+  });
+  return (
+    <>
+      <label className="flex min-h-11 items-center gap-2 font-semibold">
+        <input
+          type="checkbox"
+          className="size-5 accent-accent-600"
+          checked={i.heavyCaseFlag}
+          disabled={!i.canUpdate || save.isPending}
+          onChange={(e) => save.mutate(e.target.checked)}
+        />
+        Travels in a heavy case
+      </label>
+      {save.isError ? <p role="alert" className="text-sm text-danger-700">{isApiError(save.error) ? save.error.message : 'Not saved. Try again.'}</p> : null}
+    </>
   );
 }
 

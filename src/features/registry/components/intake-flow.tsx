@@ -5,10 +5,11 @@ import { Link } from 'react-router-dom';
 import { Button, ButtonLink } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { ErrorState } from '@/components/ui/error-state';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { Spinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
-import { INSTRUMENT_FAMILIES, INSTRUMENT_FAMILY_LABELS, OWNER_KINDS, type OwnerKind } from '@shared/domain';
+import { INSTRUMENT_FAMILIES, INSTRUMENT_FAMILY_LABELS, OWNER_KINDS, type InstrumentFamily, type OwnerKind } from '@shared/domain';
 import {
   CUSTOMER_KINDS,
   CUSTOMER_KIND_LABELS,
@@ -19,6 +20,7 @@ import {
   type CustomerInput,
   type NewInstrumentInput,
 } from '@shared/schemas/registry';
+import { isHeavyCase } from '@shared/safety/hazards';
 import { familyLabel, stageLabel, todayIn } from '../format';
 import { customerSearchQueryOptions, instrumentQueryOptions, registryKeys, registryMutations, serialCheckQueryOptions } from '../queries';
 import type { CustomerView, InstrumentDetail, InstrumentHit, IntakeResult } from '../types';
@@ -310,8 +312,10 @@ function InstrumentSummary({
   onChange: () => void;
 }) {
   let text: string;
+  let heavy = false;
   if (choice.kind === 'new') {
     text = `${INSTRUMENT_FAMILY_LABELS[choice.data.family as keyof typeof INSTRUMENT_FAMILY_LABELS] ?? choice.data.family} · ${choice.data.maker} ${choice.data.model ?? ''} · SN ${choice.data.serial} (new)`;
+    heavy = isHeavyCase(choice.data.family as InstrumentFamily, choice.data.heavyCase ?? false);
   } else if (existing.isPending) {
     return <Spinner label="Loading the instrument…" showLabel />;
   } else if (existing.isError) {
@@ -319,14 +323,19 @@ function InstrumentSummary({
   } else {
     const i = existing.data!.instrument;
     text = `${familyLabel(i.family)} · ${i.maker} ${i.model ?? ''} · SN ${i.serial} · at ${i.currentShop?.name ?? '—'}`;
+    heavy = i.heavyCase;
   }
   return (
-    <p className="rounded-lg bg-paper-100 px-3 py-2 text-sm text-ink-950">
-      {text}{' '}
-      <button type="button" className="font-semibold text-accent-700 underline" onClick={onChange}>
-        Change
-      </button>
-    </p>
+    <>
+      <p className="rounded-lg bg-paper-100 px-3 py-2 text-sm text-ink-950">
+        {text}{' '}
+        <button type="button" className="font-semibold text-accent-700 underline" onClick={onChange}>
+          Change
+        </button>
+      </p>
+      {/* the desk carries it to the shelf: the lifting caution stands at intake, before anyone picks it up */}
+      {heavy ? <HazardCautions hazards={['heavy_lift']} /> : null}
+    </>
   );
 }
 
@@ -405,6 +414,14 @@ function NewInstrumentForm({
           ))}
         </SelectField>
       </div>
+      <label className="flex min-h-11 items-start gap-2 text-sm font-medium text-ink-800">
+        <input type="checkbox" className="mt-0.5 size-5 accent-accent-600" checked={draft.heavyCase ?? false} onChange={(e) => set('heavyCase', e.target.checked)} />
+        <span>
+          Heavy case
+          <span className="block font-normal text-ink-600">It travels in a heavy case whatever its family (a double case, a flight case). Baritone and bass saxophones, tubas and euphoniums count as heavy anyway.</span>
+        </span>
+      </label>
+      {isHeavyCase(draft.family as InstrumentFamily, draft.heavyCase ?? false) ? <HazardCautions hazards={['heavy_lift']} /> : null}
       {sameMaker ? (
         <div role="alert" className="rounded-xl border border-danger-200 bg-danger-50 px-4 py-3 text-sm">
           <p className="font-semibold text-danger-700">
@@ -662,6 +679,7 @@ function IntakeDone({
         {result.instrument.maker} · SN {result.instrument.serial}
         {result.instrument.assetTag ? ` · tag ${result.instrument.assetTag}` : ''}
       </p>
+      {result.cautions.length ? <HazardCautions cautions={result.cautions} intro="Before it goes to the shelf" /> : null}
       {result.warnings.map((w) => (
         <p key={w} role="note" className="rounded-lg bg-paper-100 px-3 py-2 text-sm text-ink-950">{w}</p>
       ))}

@@ -1,13 +1,15 @@
 import { useQuery } from '@tanstack/react-query';
-import { useState, type FormEvent } from 'react';
+import { Fragment, useState, type FormEvent } from 'react';
+import { HAZARD_LABELS, type Hazard } from '@shared/safety/hazards';
 import { Button } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import { EmptyState } from '@/components/ui/empty-state';
+import { HazardCheckboxes } from '@/components/ui/hazard-checkboxes';
 import { ErrorState } from '@/components/ui/error-state';
 import { Spinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
-import { stockQueryOptions, useAdjustStock, useRequestTransfer, useTransferStep } from '../queries';
+import { stockQueryOptions, useAdjustStock, useRequestTransfer, useSetPartHazards, useTransferStep } from '../queries';
 import type { PartTransferView, StockFilters, StockPage, StockRow } from '../types';
 
 const kindLabel = (row: StockRow) =>
@@ -87,6 +89,13 @@ function StockTable({ page }: { page: StockPage }) {
   const request = useRequestTransfer();
   const [editing, setEditing] = useState<{ partId: string; onHand: string; reorderPoint: string } | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const setHazards = useSetPartHazards();
+  const [tagging, setTagging] = useState<{ partId: string; name: string; hazards: Hazard[] } | null>(null);
+  const saveHazards = async (event: FormEvent) => {
+    event.preventDefault();
+    if (!tagging) return;
+    await setHazards.mutateAsync({ partId: tagging.partId, hazards: tagging.hazards }).then(() => setTagging(null), () => undefined);
+  };
 
   const saveCount = async (event: FormEvent) => {
     event.preventDefault();
@@ -120,10 +129,19 @@ function StockTable({ page }: { page: StockPage }) {
             const isEditing = editing?.partId === row.partId;
             const need = row.shortage - row.incoming;
             return (
-              <tr key={row.partId} className={cn('align-top', row.shortage > 0 && 'bg-danger-50/60')}>
+              <Fragment key={row.partId}>
+              <tr className={cn('align-top', row.shortage > 0 && 'bg-danger-50/60')}>
                 <th scope="row" className="px-3 py-2 font-normal">
                   <span className="font-semibold text-ink-950">{row.name}</span>
                   <span className="block text-xs text-ink-600">{row.sku} · {kindLabel(row)}</span>
+                  {row.hazards.length ? (
+                    <span className="mt-1 block text-xs text-[#8a5300]">Hazards: {row.hazards.map((h) => HAZARD_LABELS[h]).join('; ')}</span>
+                  ) : null}
+                  {page.can.setHazards && tagging?.partId !== row.partId ? (
+                    <Button variant="quiet" className="mt-1 text-xs" onClick={() => setTagging({ partId: row.partId, name: row.name, hazards: row.hazards })}>
+                      Hazards<span className="sr-only"> of {row.name}</span>
+                    </Button>
+                  ) : null}
                 </th>
                 <td className="px-3 py-2 tabular-nums">{row.kind === 'pad' ? `${mm(row.diameterMm)} × ${mm(row.thicknessMm)}` : '—'}</td>
                 {isEditing ? (
@@ -175,6 +193,27 @@ function StockTable({ page }: { page: StockPage }) {
                   ) : null}
                 </td>
               </tr>
+              {tagging?.partId === row.partId ? (
+                <tr>
+                  <td colSpan={7} className="px-3 pb-3">
+                    <form onSubmit={saveHazards} className="flex flex-col gap-2">
+                      <HazardCheckboxes
+                        of={row.name}
+                        value={tagging.hazards}
+                        onChange={(hazards) => setTagging({ ...tagging, hazards })}
+                        error={isApiError(setHazards.error) ? setHazards.error.fieldErrors.hazards : undefined}
+                      />
+                      <div className="flex gap-2">
+                        <Button type="submit" disabled={setHazards.isPending}>{setHazards.isPending ? 'Saving…' : 'Save hazards'}</Button>
+                        <Button variant="quiet" onClick={() => setTagging(null)}>Cancel</Button>
+                      </div>
+                      {setHazards.isError && !isApiError(setHazards.error) ? <p role="alert" className="text-xs text-danger-700">The hazards could not be saved.</p> : null}
+                      {isApiError(setHazards.error) && !setHazards.error.fieldErrors.hazards ? <p role="alert" className="text-xs text-danger-700">{setHazards.error.message}</p> : null}
+                    </form>
+                  </td>
+                </tr>
+              ) : null}
+              </Fragment>
             );
           })}
         </tbody>

@@ -3,7 +3,7 @@ import { subject } from '@casl/ability';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS } from '@shared/domain';
-import { createTransferSchema, isHeavyCase } from '@shared/transfers';
+import { createTransferSchema } from '@shared/transfers';
 import { Button } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import { EmptyState } from '@/components/ui/empty-state';
@@ -13,7 +13,7 @@ import { isApiError, type FieldErrors } from '@/lib/api-client';
 import { useAppAbility } from '@/lib/ability';
 import { formatLocalDate } from '../format';
 import { recommendationQueryOptions, requestableJobsQueryOptions, useRequestTransfer } from '../queries';
-import { LiftingCaution } from './lifting-caution';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { RankingList } from './ranking-list';
 
 interface RequestTransferProps {
@@ -227,8 +227,8 @@ function RecommendationForm({
               regional manager there): only the owner could confirm receipt. Give someone there that role before the instrument arrives.
             </p>
           ) : null}
-          {isHeavyCase(job.instrument.family) ? (
-            <LiftingCaution />
+          {job.instrument.heavyCase ? (
+            <HazardCautions hazards={['heavy_lift']} />
           ) : null}
           <div className="flex flex-col gap-1">
             <label htmlFor={reasonId} className="text-sm font-medium text-ink-800">

@@ -8,7 +8,7 @@ import { useAppAbility } from '@/lib/ability';
 import { formatInShop, PENDING_LABEL } from '../format';
 import { useTransferAction } from '../queries';
 import type { TransferAction, TransferDetail } from '../types';
-import { LiftingCaution } from './lifting-caution';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 
 /**
  * The next steps of a transfer that this person may take. The server decides for real; the ability only
@@ -211,7 +211,7 @@ function PackPanel({ transfer }: { transfer: TransferDetail }) {
       <form onSubmit={submit} noValidate className="flex flex-col gap-3">
         {transfer.heavyCase ? (
           <>
-            <LiftingCaution />
+            <HazardCautions hazards={['heavy_lift']} />
             <label className="flex items-start gap-2 text-sm font-medium text-ink-800">
               <input
                 type="checkbox"

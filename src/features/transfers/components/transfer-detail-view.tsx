@@ -12,7 +12,7 @@ import { useAppAbility } from '@/lib/ability';
 import { formatInShop } from '../format';
 import { transferDetailQueryOptions } from '../queries';
 import type { TransferDetail } from '../types';
-import { LiftingCaution } from './lifting-caution';
+import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { TransferActions } from './transfer-actions';
 import { TransferStateBadge } from './transfer-state-badge';
 
@@ -71,7 +71,7 @@ export function TransferDetailView({ id, currentUserId, hrefFor }: TransferDetai
         </div>
         <div className="flex flex-col gap-4">
           <TransferActions transfer={t} currentUserId={currentUserId} />
-          {showCaution ? <LiftingCaution /> : null}
+          {showCaution ? <HazardCautions hazards={['heavy_lift']} /> : null}
           <Card as="section" aria-label="Manifest">
             <CardTitle>Manifest</CardTitle>
             {t.manifestAvailable ? (

@@ -12,7 +12,7 @@ describe('job cards and customers whose name is kept by another shop', () => {
   const job = (over: Partial<JobSummary>): JobSummary => ({
     id: `job-${over.number}`, number: over.number ?? 1, stage: 'on_bench', stageBeforeHold: null,
     shop: { id: 'den', name: 'Denver bench', timeZone: 'America/Denver' },
-    instrument: { id: 'i', family: 'flute', maker: 'Quellstone', model: null, serial: `Q ${over.number}` },
+    instrument: { id: 'i', family: 'flute', maker: 'Quellstone', model: null, serial: `Q ${over.number}`, heavyCase: false },
     customerName: null, customerHidden: false, complaint: 'Low C does not speak', assignee: null, requiredSkill: null,
     promisedOn: null, overdue: false, estimateApproved: false, openedAt: '2026-11-01T00:00:00.000Z', updatedAt: '2026-11-01T00:00:00.000Z',
     ...over,

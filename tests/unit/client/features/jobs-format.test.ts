@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { centsToInput, formatMinutes, parseMoneyToCents } from '@/features/jobs/format';
 import { precheckFile, PHOTO_MAX_BYTES } from '../../../../shared/files/limits.js';
-import { cautionsFor } from '../../../../shared/jobs/cautions.js';
 
 describe('money typed at the bench', () => {
   it('reads dollars and cents from the digits, never through a binary fraction', () => {
@@ -30,13 +29,5 @@ describe('checks before an upload leaves the phone', () => {
     expect(precheckFile('photo', { type: 'image/jpeg', size: PHOTO_MAX_BYTES + 1 })).toMatch(/limit is 15 MB/);
     expect(precheckFile('document', { type: 'image/jpeg', size: 10 })).toMatch(/PDF/);
     expect(precheckFile('photo', { type: 'image/webp', size: 10 })).toBeNull();
-  });
-});
-
-describe('safety cautions on bench work', () => {
-  it('names adhesives and heat for a repad, solvents for a chemical clean, and defers to the safety data sheet', () => {
-    expect(cautionsFor('Repad — alto saxophone').join(' ')).toMatch(/Adhesives and heat.*safety data sheet/);
-    expect(cautionsFor('Chemical clean & lubrication — brass').join(' ')).toMatch(/Solvents/);
-    expect(cautionsFor('Leak test & adjust')).toEqual([]);
   });
 });
