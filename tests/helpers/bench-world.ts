@@ -23,6 +23,8 @@ export async function makeBenchWorld(app: Express, signInAs: Role[] = []) {
   const skill = await Skill.create({ networkId: network.id, code: `woodwind_${uniq().replace(/-/g, '')}`, name: 'General woodwind' });
   const repadAlto = await ServiceCatalogItem.create({
     networkId: network.id, name: 'Repad — alto saxophone', family: 'alto_saxophone', standardHours: 6, skillId: skill.id,
+    // tagged as an owner would: the cautions follow the tags, never the name
+    hazards: ['pad_removal', 'adhesive', 'heat_flame', 'solvent', 'springs_sharp'],
   });
   const leakTest = await ServiceCatalogItem.create({ networkId: network.id, name: 'Leak test & adjust', family: null, standardHours: 1 });
   const repadFlute = await ServiceCatalogItem.create({ networkId: network.id, name: 'Repad — flute', family: 'flute', standardHours: 5 });

@@ -58,6 +58,17 @@ export const cases: RouteCase[] = [
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own', 'otherShop'], technician: ['own', 'otherShop'], auditor: ['own'] },
   },
   {
+    // the shop that holds the instrument marks its heavy case
+    route: 'PATCH /api/instruments/:id/heavy-case',
+    build: ({ world, scope }) => ({ path: `/api/instruments/${world.ids[scope].instrument}/heavy-case`, body: { heavyCase: true } }),
+    allow: { owner: ['own', 'otherShop'], regional_manager: ['own'], front_desk: ['own'] },
+    foreignIds: {},
+    verify: async ({ world, scope }) => {
+      const instrument = await Instrument.findByPk(world.ids[scope].instrument);
+      if (!instrument?.heavyCase) throw new Error('the heavy-case flag was not stored');
+    },
+  },
+  {
     route: 'GET /api/instruments/:id/timeline',
     build: ({ world, scope }) => ({ path: `/api/instruments/${world.ids[scope].instrument}/timeline` }),
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own', 'otherShop'], front_desk: ['own', 'otherShop'], technician: ['own', 'otherShop'], auditor: ['own'] },

@@ -54,6 +54,17 @@ export const cases: RouteCase[] = [
     foreignIds: { 'path.partId': 'pad' },
   },
   {
+    // parts belong to the network, like the service catalog: only the owner sets their hazard tags
+    route: 'PUT /api/parts/:partId/hazards',
+    allow: { owner: ['own', 'otherShop'] },
+    build: ({ world, scope }) => ({ path: `/api/parts/${world.ids[scope].pad}/hazards`, body: { hazards: ['adhesive'] } }),
+    foreignIds: {},
+    verify: async ({ world, scope }) => {
+      const part = await Part.findOne({ where: { networkId: networkOf(world, scope), id: world.ids[scope].pad } });
+      if (!part?.hazards.includes('adhesive')) throw new Error('the hazard tag was not stored');
+    },
+  },
+  {
     // the shop that is short asks (a repeat finds the open request and answers 200)
     route: 'POST /api/stock/part-transfers',
     allow: { owner: ['own', 'otherShop'], regional_manager: ['own'], technician: ['own'] },

@@ -130,8 +130,12 @@ describe('the job page API', () => {
     expect(body.job.estimatedHours).toBe(7.15);
     // the catalog item's skill became the job's required skill
     expect(body.job.requiredSkill).toEqual({ id: w.skill.id, name: 'General woodwind' });
-    // repad work carries the adhesive and heat caution
-    expect(body.lineItems[0].cautions.join(' ')).toMatch(/safety data sheet/);
+    // the owner tagged the repad with its hazards: the line carries their cautions; the untagged leak test and
+    // the free-text pad line carry none
+    expect(body.lineItems[0].cautions.map((c) => c.hazard)).toEqual(['adhesive', 'solvent', 'heat_flame', 'springs_sharp', 'pad_removal']);
+    expect(body.lineItems[0].cautions.map((c) => c.text).join(' ')).toMatch(/safety data sheet/);
+    expect(body.lineItems[1].cautions).toEqual([]);
+    expect(body.lineItems[2].cautions).toEqual([]);
 
     const labor = body.lineItems[1];
     const changed = await request(app)
