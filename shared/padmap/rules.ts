@@ -26,7 +26,10 @@ export interface PadRules {
   stemHeightsMm: number[];
   /** The pad face should stand this far above the cup rim. Default 0.5 mm (from memory). */
   minProtrusionMm: number;
-  /** A self-leveling key takes this share of a glued key's time. Default 0.5 (common practice). */
+  /**
+   * A self-leveling key takes this share of a glued key's time. Default 0.5: a Benchrelay pricing default the owner
+   * sets, not a trade figure.
+   */
   selfLevelingLaborFactor: number;
   /**
    * Pad-map labor = base + per key × keys repadded (self-leveling keys at the factor above).
