@@ -67,7 +67,8 @@ describe('turnaround: median and 90th percentile per window, shop and family', (
       const openedAt = new Date(readyAt.getTime() - (3 * HOUR + rand() * 30 * DAY));
       jobs.push({ shopId: i % 2 ? ny.id : tokyo.id, family: families[i % 3], openedAt, readyAt });
     }
-    // Known answers, by hand: UTC, Monday–Friday, ready on a Monday at least two weeks back. Taken in on
+    // Known answers, by hand from the Gregorian weekdays (any published calendar; the dates are found from today's
+    // weekday, so no particular year is assumed): UTC, Monday–Friday, ready on a Monday at least two weeks back. Taken in on
     // the Monday before → 5 business days; Tuesday → 4; Thursday → 2; Friday → 1; two Mondays before → 10.
     // Sorted [1, 2, 4, 5, 10]: median 4; p90 at rank 0.9 × 4 = 3.6 → 5 + 0.6 × (10 − 5) = 8.
     const twoWeeksAgo = new Date(now - 14 * DAY);

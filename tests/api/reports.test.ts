@@ -79,7 +79,7 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
       return created;
     };
 
-    // Alder (Seattle time, Mon–Fri, 10 % tax)
+    // Alder (Seattle time, Mon–Fri, 10 % tax invented for the test)
     await job('a1', A, 'intake', { skill: woodwind.id, promisedInDays: -1, customerId: school.id });
     await job('a2', A, 'on_bench', { skill: woodwind.id, hours: 12, promisedInDays: -3 });
     await job('a3', A, 'ready', { skill: woodwind.id, hours: 5, promisedInDays: -2, readyAt: new Date() });
@@ -288,7 +288,7 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     const alder = rows.filter((r) => r.startsWith(`${ids['inv1#']},2026-03-01,`));
     expect(alder).toHaveLength(3);
     // 1.25 h × $92.50 = $115.625 → 11 563 ¢; 0.5 × 125 ¢ = 62.5 → 63 ¢; 719 ¢. Subtotal 12 345 ¢,
-    // 10 % tax = 1 234.5 → 1 235 ¢ (half away from zero), total 13 580 ¢.
+    // 10 % tax (invented for the test) = 1 234.5 → 1 235 ¢ (half away from zero, Benchrelay's rule), total 13 580 ¢.
     expect(alder[0]).toContain(',1,labor,Repad — alto saxophone,1.25,9250,11563,115.63,12345,10,1235,13580,123.45,12.35,135.80');
     expect(alder[1]).toContain(',2,part,Glued pad 10.0 mm,0.5,125,63,0.63,12345,');
     expect(alder[2]).toContain(',3,part,Pad cement stick,1,719,719,7.19,12345,');

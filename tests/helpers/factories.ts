@@ -22,6 +22,7 @@ export async function makeShop(networkId: string, over: Partial<{ name: string; 
     longitude: -122.4443,
     openingDays: [1, 2, 3, 4, 5],
     laborRateCents: 9000,
+    // 10 %: a round rate invented for the tests, not any place's sales tax
     taxRateBasisPoints: 1000,
   });
 }

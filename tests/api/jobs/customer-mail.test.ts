@@ -46,7 +46,7 @@ describe('e-mails to the customer', () => {
     expect(mail.text).toContain('Hello Tamsin Ordway,');
     expect(mail.text).toContain('serial LK-20931');
     expect(mail.text).toMatch(/Repad — alto saxophone\s+\$540\.00/);
-    // $604.50 subtotal, 10 % tax $60.45, total $664.95
+    // $604.50 subtotal, 10 % tax (invented for the test, tests/helpers/factories.ts) $60.45, total $664.95
     expect(mail.text).toMatch(/Subtotal\s+\$604\.50/);
     expect(mail.text).toMatch(/Tax \(10 %\)\s+\$60\.45/);
     expect(mail.text).toMatch(/Total\s+\$664\.95/);

@@ -117,6 +117,7 @@ describe('approved estimates: re-approval on a raise, and a trace of every chang
   it('a transfer to a shop with a higher tax rate re-taxes the estimate: history entry and a new approval needed', async () => {
     const t = await makeTransferNetwork();
     await t.origin.update({ taxRateBasisPoints: 1000 });
+    // 12.5 %: invented for the test
     await t.destination.update({ taxRateBasisPoints: 1250 });
     const { job, instrument } = await makeTransferJob(t);
     // 1 h at $90.00 written at the origin: 10 % tax → $99.00

@@ -37,6 +37,7 @@ describe('shops, skills and relay runs', () => {
     const body = {
       name: 'Juniper Yard Bench', code: code().toLowerCase(), addressLine: '12 Juniper Yard', city: 'Boise', region: 'ID',
       postalCode: '83702', latitude: 43.615, longitude: -116.2023, timeZone: 'America/Boise', openingDays: [5, 1, 3],
+      // 6 %: a rate invented for the test
       laborRateCents: 8700, taxRateBasisPoints: 600, email: 'Juniper@Example.test',
     };
     const res = await request(app).post('/api/shops').set('Cookie', ownerCookie).send(body);

@@ -11,7 +11,7 @@ describe('invoice CSV with a credit line', () => {
           { kind: 'labor', description: 'Repad', quantity: 2, unitCents: 9000, totalCents: 18000 },
           { kind: 'part', description: 'Goodwill credit', quantity: 1, unitCents: -2000, totalCents: -2000 },
         ],
-        // worked by hand: 180.00 − 20.00 = 160.00; 10 % tax 16.00; total 176.00
+        // worked by hand: 180.00 − 20.00 = 160.00; 10 % tax (a rate invented for the test) 16.00; total 176.00
         subtotalCents: 16000, taxCents: 1600, totalCents: 17600,
       },
       {

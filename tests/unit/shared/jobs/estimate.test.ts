@@ -10,7 +10,11 @@ import {
   toHundredths,
 } from '../../../../shared/jobs/estimate.js';
 
-/** Rule under test (shared/jobs/estimate.ts): each line rounded half away from zero to the cent, tax once on the subtotal, same rounding. */
+/**
+ * Rule under test (shared/jobs/estimate.ts): each line rounded half away from zero to the cent, tax once on the subtotal,
+ * same rounding. Rounding half away from zero is Benchrelay's rule, chosen by us, not quoted from a tax authority. Every
+ * tax rate below is invented for the test (round or oddly precise on purpose), not any city's or state's real rate.
+ */
 describe('line totals in cents', () => {
   it('labor is hours × rate, exact where binary floating point is not', () => {
     // 1.15 * 9000 is 10349.999999999998 in floating point; the exact answer is $103.50
@@ -53,7 +57,7 @@ describe('line totals in cents', () => {
 });
 
 describe('tax and totals', () => {
-  it('worked example, Seattle (10.25 %): repad and leak test with pads and cement', () => {
+  it('worked example at 10.25 % (invented for the test): repad and leak test with pads and cement', () => {
     const totals = estimateTotals(
       [
         { kind: 'labor', hours: 6, rateCents: 9200 }, //        $552.00
@@ -75,13 +79,13 @@ describe('tax and totals', () => {
     });
   });
 
-  it('worked example, Denver (8.81 %): $123.45 → tax $10.875945 → $10.88', () => {
+  it('worked example at 8.81 % (invented for the test): $123.45 → tax $10.875945 → $10.88', () => {
     const totals = estimateTotals([{ kind: 'part', quantity: 1, unitPriceCents: 12_345 }], 881);
     expect(totals.taxCents).toBe(1088);
     expect(totals.totalCents).toBe(13_433);
   });
 
-  it('tax is computed once on the subtotal, not per line (Sacramento, 8.75 %)', () => {
+  it('tax is computed once on the subtotal, not per line (8.75 %, invented for the test)', () => {
     // per line: $10.00 × 8.75 % = 87.5 ¢ → 88 ¢ each, 176 ¢; on the subtotal: $20.00 × 8.75 % = 175 ¢
     const totals = estimateTotals(
       [
@@ -99,7 +103,7 @@ describe('tax and totals', () => {
     expect(taxCents(1000, 1024)).toBe(102);
   });
 
-  it('a shop without sales tax (Portland) charges none; an empty estimate is zero', () => {
+  it('a shop with a 0 % rate charges no tax; an empty estimate is zero', () => {
     expect(estimateTotals([{ kind: 'labor', hours: 2.5, rateCents: 8800 }], 0)).toMatchObject({ taxCents: 0, totalCents: 22_000 });
     expect(estimateTotals([], 1025)).toMatchObject({ subtotalCents: 0, taxCents: 0, totalCents: 0 });
   });

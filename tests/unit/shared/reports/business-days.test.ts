@@ -4,6 +4,11 @@ import { businessDaysBetween, isOpeningDay, localDateIn } from '../../../../shar
 const MON_FRI = [1, 2, 3, 4, 5];
 const TUE_SAT = [2, 3, 4, 5, 6];
 
+/*
+ * Weekdays are those of the Gregorian calendar for 2026 and 2027 (any published calendar); the days of the US
+ * daylight-saving changes follow 15 U.S.C. § 260a (second Sunday of March, first Sunday of November, 02:00 local);
+ * every count of business days below was worked by hand from them.
+ */
 describe('businessDaysBetween: opening days after the intake date, up to and including the ready date, on the shop’s calendar', () => {
   // 2026-03-07T07:30Z is Friday 23:30 in Seattle (PST) but already Saturday 16:30 in Tokyo;
   // 2026-03-09T17:00Z is Monday 10:00 in Seattle (PDT: clocks went forward on Sunday 8 March)

@@ -33,7 +33,7 @@ describe('plain-language figures', () => {
 
   it('a date-only value is not moved by any time zone; an instant is shown on the shop’s clock', () => {
     expect(formatIsoDate('2026-03-01')).toBe('Sun 1 Mar 2026');
-    // 07:30 UTC on 7 March 2026 is 23:30 the evening before in Los Angeles (PST, UTC−8; DST begins 8 March)
+    // 07:30 UTC on 7 March 2026 is 23:30 the evening before in Los Angeles (PST, UTC−8; DST begins 8 March: second Sunday of March, 15 U.S.C. § 260a)
     expect(formatInstantIn('2026-03-07T07:30:00Z', 'America/Los_Angeles')).toBe('Fri 6 Mar 2026, 23:30 PST');
     expect(formatInstantIn('2026-03-07T07:30:00Z', 'Asia/Tokyo')).toBe('Sat 7 Mar 2026, 16:30 GMT+9');
   });

@@ -1,6 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { basisPointsToPercent, centsToDecimal, invoiceTotals } from '../../../../shared/reports/money.js';
 
+/*
+ * Rounding half away from zero is Benchrelay's rule (shared/jobs/estimate.ts), not a tax authority's. The rates (10 %,
+ * 10.25 %) are invented for the test.
+ */
 describe('invoice arithmetic in integer cents (the estimate’s rule)', () => {
   it('rounds each line once, half away from zero; NUMERIC strings from pg are fine', () => {
     const t = invoiceTotals(

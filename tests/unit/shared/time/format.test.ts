@@ -10,6 +10,7 @@ describe('one way to write a time', () => {
     expect(formatDateTime('2026-12-06T00:06:00Z', 'Europe/Berlin')).toBe('Sun 6 Dec 2026, 01:06 GMT+1');
   });
 
+  // daylight time runs from the second Sunday of March to the first Sunday of November (15 U.S.C. § 260a)
   it('uses daylight time when the date falls in it (July in Los Angeles is UTC−7)', () => {
     expect(formatDateTime('2026-07-04T19:30:00Z', 'America/Los_Angeles')).toBe('Sat 4 Jul 2026, 12:30 PDT');
   });
