@@ -63,7 +63,7 @@ describe('browser: pad map for an alto saxophone, by keyboard', () => {
     // the safety cautions stand in the glue-only-the-stem step
     const checklist = page.getByRole('region', { name: 'Install checklist' });
     await checklist.getByText('Glue only the stem').waitFor();
-    const safety = checklist.getByRole('complementary', { name: 'Safety cautions' });
+    const safety = checklist.getByRole('note', { name: 'Safety cautions' });
     expect(await safety.innerText()).toMatch(/Cyanoacrylate[\s\S]*ventilate[\s\S]*safety data sheet, local codes and licensed practice/i);
 
     // the first cell gets the focus once; everything after is the keyboard

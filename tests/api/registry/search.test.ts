@@ -132,7 +132,7 @@ describe('GET /api/instruments/search', () => {
   it('warns about the same serial under another maker before registering', async () => {
     const res = await request(app)
       .get('/api/instruments/serial-check')
-      .query({ serial: '77-19-204', maker: 'veyron  winds' })
+      .query({ serial: '77-19-204', maker: 'skelmire  winds' })
       .set('Cookie', deskCookie)
       .expect(200);
     expect(res.body.sameMaker).toMatchObject({ maker: 'Skelmire Winds' });

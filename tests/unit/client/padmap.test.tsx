@@ -138,11 +138,12 @@ describe('pad map screen', () => {
   it('shows the cautions in the glue step, deferring to the data sheet, codes and licensed practice', async () => {
     renderScreen(workspace());
     const checklist = await screen.findByRole('region', { name: 'Install checklist' });
-    const safety = within(checklist).getByRole('complementary', { name: 'Safety cautions' });
+    const safety = within(checklist).getByRole('note', { name: 'Safety cautions' });
     expect(safety.closest('li')).toHaveTextContent(/Glue only the stem/);
-    expect(safety).toHaveTextContent(/Cyanoacrylate adhesive/);
+    expect(safety).toHaveTextContent(/Cyanoacrylate bonds skin/);
     expect(safety).toHaveTextContent(/strip lacquer/);
-    expect(safety).toHaveTextContent(/Heat or flame/);
+    expect(safety).toHaveTextContent(/Heat or open flame/);
+    expect(safety).toHaveTextContent(/Removing old pads and cleaning pad cups/);
     expect(safety).toHaveTextContent(/eye protection/);
     expect(safety).toHaveTextContent(/safety data sheet, local codes and licensed practice/);
   });

@@ -37,7 +37,7 @@ describe('normalizeSerial', () => {
 describe('normalizeMaker', () => {
   it('lower-cases, trims and collapses whitespace', () => {
     expect(normalizeMaker('  Skelmire   Winds ')).toBe('skelmire winds');
-    expect(normalizeMaker('VEYRON\tWINDS')).toBe('skelmire winds');
+    expect(normalizeMaker('SKELMIRE\tWINDS')).toBe('skelmire winds');
   });
 
   it('keeps punctuation that distinguishes makers', () => {
