@@ -9,6 +9,7 @@ import * as attachmentEtag from './0009-attachment-etag.js';
 import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
 import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 import * as shopClosingDays from './0015-shop-closing-days.js';
+import * as customerLinksAndDecisions from './0017-customer-links-and-decisions.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -27,4 +28,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
   { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
   { name: '0015-shop-closing-days', ...shopClosingDays },
+  { name: '0017-customer-links-and-decisions', ...customerLinksAndDecisions },
 ];

@@ -99,7 +99,21 @@ export interface JobDetail {
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;
+    /** Where the customer collects it (the shop that took it in). */
+    pickupShop: PersonRef | null;
   };
+  /** Every approval and decline, newest first; `name` follows the customer's contact rule. */
+  estimateDecisions: Array<{
+    id: string;
+    decision: 'approved' | 'declined';
+    method: EstimateApprovalMethod;
+    name: string | null;
+    totalCents: number;
+    version: number;
+    at: string;
+  }>;
+  /** The customer's private links: how many still open, when the last was made and last opened. */
+  customerLink: { live: number; lastIssuedAt: string | null; lastOpenedAt: string | null };
   shop: {
     id: string;
     name: string;
@@ -114,7 +128,17 @@ export interface JobDetail {
     taxRateBasisPoints: number;
   };
   /** `name` is null for a private customer whose details stay with the shops that serve them */
-  customer: { id: string; name: string | null; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
+  customer: {
+    id: string;
+    name: string | null;
+    kind: string;
+    email: string | null;
+    phone: string | null;
+    contactShown: boolean;
+    poNumber: string | null;
+    taxExemptCertificate: string | null;
+    noticesOptOut: boolean;
+  } | null;
   lineItems: LineItemDto[];
   totals: EstimateTotals;
   timeLogs: TimeLogDto[];
@@ -129,6 +153,8 @@ export interface JobDetail {
     editEstimate: boolean;
     logTime: boolean;
     addAttachment: boolean;
+    /** Send the estimate, make a new customer link, revoke the links: the front desk and managers. */
+    customerLink: boolean;
   };
   options: { technicians: PersonRef[]; skills: PersonRef[] };
 }

@@ -7,9 +7,11 @@ import { hasAtMostTwoDecimals, MAX_HUNDREDTHS_VALUE } from './estimate.js';
  * so both give the same field errors.
  */
 
+/** How the front desk records an approval it was given; the customer's own, from the link, is `link`. */
 export const ESTIMATE_APPROVAL_METHODS = ['in_person', 'phone', 'email'] as const;
-export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number];
+export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number] | 'link';
 export const ESTIMATE_APPROVAL_METHOD_LABELS: Record<EstimateApprovalMethod, string> = {
+  link: 'Customer link',
   in_person: 'In person',
   phone: 'Phone',
   email: 'E-mail',
