@@ -7,6 +7,12 @@ import type { JobStage } from '../domain.js';
  * nothing more) and the page.
  */
 
+/** Said on the page, in the e-mail and on the PDF, so the customer knows what their answer does. */
+export const APPROVAL_MEANING =
+  'Approving this estimate asks the shop to do the work listed for the total shown. If the work turns out to need more, ' +
+  'the shop asks you again before the total goes above the amount you approved. Declining stops the work: you collect ' +
+  'the instrument as it is. Either way, you can call the shop.';
+
 /** A link lives until revoked, or until this many days after the job's release. */
 export const CUSTOMER_LINK_DAYS_AFTER_RELEASE = 30;
 
@@ -98,7 +104,7 @@ export interface PublicJobView {
   } | null;
   approval: {
     status: PublicApprovalStatus;
-    /** the last approval, when there is one: amount and version, when and how */
+    /** the last approval, when there is one: amount and version, when, and how in words ("on this page", "by phone") */
     approved: { totalCents: number; version: number; at: string; method: string } | null;
     declinedAt: string | null;
     /** true while the customer may approve or decline the estimate as it stands */

@@ -7,7 +7,7 @@ import { INSTRUMENT_FAMILY_LABELS } from '../../../shared/domain.js';
 import { formatCents, lineTotalCents } from '../../../shared/jobs/estimate.js';
 import { formatCalendarDate } from '../../../shared/jobs/promised-date.js';
 import { estimateNeedsReapproval, mayRecordApproval } from '../../../shared/jobs/stage-machine.js';
-import { ESTIMATE_APPROVAL_METHOD_LABELS, type EstimateApprovalMethod } from '../../../shared/jobs/schemas.js';
+import type { EstimateApprovalMethod } from '../../../shared/jobs/schemas.js';
 import { formatDateTime } from '../../../shared/time/format.js';
 import { formatWeekdays } from '../../../shared/routing/rank.js';
 import {
@@ -118,6 +118,14 @@ function publicShop(shop: Shop): PublicShop {
   };
 }
 
+/** How an approval came, in the customer's words ("Approved …, on this page"). */
+const HOW_FOR_CUSTOMER: Record<EstimateApprovalMethod, string> = {
+  link: 'on this page',
+  phone: 'by phone',
+  in_person: 'in person',
+  email: 'by e-mail',
+};
+
 const DECIDABLE = ['assessed', 'approved', 'on_bench', 'quality_check', 'waiting_for_parts', 'in_transit'];
 
 async function buildView(job: Job, transaction?: Transaction): Promise<PublicJobView> {
@@ -197,7 +205,7 @@ async function buildView(job: Job, transaction?: Transaction): Promise<PublicJob
               totalCents: job.approvedTotalCents,
               version: job.approvedEstimateVersion ?? 0,
               at: formatDateTime(job.estimateApprovedAt, here.timeZone),
-              method: ESTIMATE_APPROVAL_METHOD_LABELS[job.estimateApprovalMethod as EstimateApprovalMethod],
+              method: HOW_FOR_CUSTOMER[job.estimateApprovalMethod as EstimateApprovalMethod],
             }
           : null,
       declinedAt: declinedLatest ? formatDateTime(latestDecision!.decidedAt, here.timeZone) : null,

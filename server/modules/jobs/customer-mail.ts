@@ -6,7 +6,8 @@ import { queueEmail } from '../notifications/service.js';
 import { INSTRUMENT_FAMILY_LABELS } from '../../../shared/domain.js';
 import { estimateTotals, formatBasisPoints, formatCents, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
 import { formatWeekdays } from '../../../shared/routing/rank.js';
-import { APPROVAL_MEANING, renderEstimatePdf } from './estimate-pdf.js';
+import { renderEstimatePdf } from './estimate-pdf.js';
+import { APPROVAL_MEANING } from '../../../shared/customers/public-page.js';
 
 /**
  * E-mails to a job's customer, all through the outbox: the estimate with its approval link and PDF (an

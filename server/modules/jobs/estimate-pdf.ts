@@ -1,6 +1,7 @@
 import PDFDocument from 'pdfkit';
 import { formatBasisPoints, formatCents } from '../../../shared/jobs/estimate.js';
 import { formatDate } from '../../../shared/time/format.js';
+import { APPROVAL_MEANING } from '../../../shared/customers/public-page.js';
 
 /** What the estimate PDF shows; customer-mail.ts fills it from the job's rows. */
 export interface EstimatePdfContent {
@@ -31,11 +32,6 @@ const latin1 = (s: string) =>
     .replace(/[“”]/g, '"')
     .replace(/…/g, '...')
     .replace(/[^\x20-\xFF\n]/g, '?');
-
-export const APPROVAL_MEANING =
-  'Approving this estimate asks the shop to do the work listed for the total shown. If the work turns out to need more, ' +
-  'the shop asks you again before the total goes above the amount you approved. Declining stops the work: you collect ' +
-  'the instrument as it is. Either way, you can call the shop.';
 
 /** A one-page estimate the customer keeps: the shop, the lines, tax, total and what approving means. */
 export async function renderEstimatePdf(e: EstimatePdfContent): Promise<Buffer> {

@@ -135,7 +135,7 @@ describe('the customer link', () => {
     const started = Date.now();
     const res = await decide(token, { decision: 'approved', name: '  Tamsin Ordway ', estimateVersion: before.estimate.version }).expect(200);
     expect(res.body.approval.status).toBe('approved');
-    expect(res.body.approval.approved).toMatchObject({ totalCents: before.estimate.totalCents, version: before.estimate.version, method: 'Customer link' });
+    expect(res.body.approval.approved).toMatchObject({ totalCents: before.estimate.totalCents, version: before.estimate.version, method: 'on this page' });
 
     const [decision] = await EstimateDecision.findAll({ where: { jobId: job.id } });
     expect(decision).toMatchObject({ decision: 'approved', method: 'link', name: 'Tamsin Ordway', totalCents: before.estimate.totalCents, estimateVersion: before.estimate.version });
