@@ -118,3 +118,15 @@ export function serialEnding(serial: string): string {
   const n = s.length >= 8 ? 4 : Math.min(2, Math.max(0, s.length - 2));
   return n > 0 ? `…${s.slice(-n)}` : '…';
 }
+
+/** What the front desk sets on the job's customer: schools' and fleets' paperwork, and the notice choice. */
+export const jobCustomerUpdateSchema = z
+  .object({
+    poNumber: z.string().trim().max(100, 'At most 100 characters.').nullable(),
+    taxExemptCertificate: z.string().trim().max(100, 'At most 100 characters.').nullable(),
+    /** true: no notices by e-mail (approval requests still go out) */
+    noticesOptOut: z.boolean(),
+  })
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change.' });
+export type JobCustomerUpdate = z.infer<typeof jobCustomerUpdateSchema>;

@@ -15,12 +15,14 @@ import {
   serialEnding,
   stageInPlainWords,
   type CustomerDecisionInput,
+  type JobCustomerUpdate,
   type PublicJobView,
   type PublicShop,
 } from '../../../shared/customers/public-page.js';
 import { hashCustomerToken, issueLinkToken, queueEstimateRequest, shopAddress } from './customer-mail.js';
 import { applyStageMove, currentEstimate, jobDetail, linkStillOpen, readableJob, recordHistory, rolesFor } from './service.js';
 import type { JobDetail } from '../../../shared/jobs/dto.js';
+import { customerViewById } from '../registry/service.js';
 
 /**
  * The customer's side of a job: the front desk makes, sends and revokes private links; the customer opens
@@ -85,6 +87,25 @@ export async function sendEstimate(actor: Actor, jobId: string): Promise<JobDeta
       },
       transaction,
     );
+  });
+  return jobDetail(actor, jobId);
+}
+
+/**
+ * The job's customer's purchase order, tax-exempt certificate and notice choice, set by the desk of a
+ * shop that serves the customer (the registry's contact rule): others do not see the customer's details.
+ */
+export async function updateJobCustomer(actor: Actor, jobId: string, input: JobCustomerUpdate): Promise<JobDetail> {
+  await sequelize.transaction(async (transaction) => {
+    const job = await deskJob(actor, jobId, transaction);
+    if (!job.customerId) throw conflict('This job has no customer.');
+    const view = await customerViewById(actor, job.customerId, transaction);
+    if (!view?.contactVisible) throw forbidden('The customer’s details stay with the shops that serve them.');
+    const changes: Partial<Customer> = {};
+    if (input.poNumber !== undefined) changes.poNumber = input.poNumber || null;
+    if (input.taxExemptCertificate !== undefined) changes.taxExemptCertificate = input.taxExemptCertificate || null;
+    if (input.noticesOptOut !== undefined) changes.noticesOptOut = input.noticesOptOut;
+    await Customer.update(changes, { where: { networkId: job.networkId, id: job.customerId }, transaction });
   });
   return jobDetail(actor, jobId);
 }

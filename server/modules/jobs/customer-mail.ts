@@ -1,7 +1,7 @@
 import { createHash, randomBytes } from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import { config } from '../../config.js';
-import { Customer, CustomerLink, Instrument, Job, JobLineItem, Shop } from '../../lib/models.js';
+import { Customer, CustomerLink, Instrument, Job, JobLineItem, OutboxMessage, Shop } from '../../lib/models.js';
 import { queueEmail } from '../notifications/service.js';
 import { INSTRUMENT_FAMILY_LABELS } from '../../../shared/domain.js';
 import { estimateTotals, formatBasisPoints, formatCents, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
@@ -37,6 +37,10 @@ const toLine = (i: JobLineItem): EstimateLine =>
 export const shopAddress = (s: Pick<Shop, 'addressLine' | 'city' | 'region' | 'postalCode'>) =>
   [s.addressLine, [s.city, s.region].filter(Boolean).join(', '), s.postalCode].filter(Boolean).join(', ') || null;
 
+/** A message already written for this key: a repeated step or sweep makes no second link or e-mail. */
+const alreadyQueued = async (networkId: string, dedupeKey: string, transaction: Transaction) =>
+  !!(await OutboxMessage.findOne({ where: { networkId, dedupeKey }, attributes: ['id'], transaction }));
+
 async function mailContext(job: Job, transaction: Transaction) {
   if (!job.customerId) return null;
   const [customer, shop, pickup, instrument, items] = await Promise.all([
@@ -71,6 +75,8 @@ export async function queueEstimateRequest(
   options: { key: string; userId: string | null; raisedFrom?: { totalCents: number; version: number } | null },
   transaction: Transaction,
 ): Promise<{ queued: boolean; url?: string }> {
+  const dedupeKey = `job-estimate-${job.id}-${options.key}`;
+  if (await alreadyQueued(job.networkId, dedupeKey, transaction)) return { queued: false };
   const c = await mailContext(job, transaction);
   if (!c) return { queued: false };
   const totals = estimateTotals(c.items.map(toLine), c.shop.taxRateBasisPoints);
@@ -126,7 +132,7 @@ export async function queueEstimateRequest(
   await queueEmail(
     {
       networkId: job.networkId,
-      dedupeKey: `job-estimate-${job.id}-${options.key}`,
+      dedupeKey,
       to: c.customer.email!,
       subject,
       text,
@@ -144,6 +150,8 @@ export type CustomerNotice =
 
 /** A notice the customer may turn off; each carries a fresh link to the job's page. */
 export async function queueCustomerNotice(job: Job, notice: CustomerNotice, key: string, transaction: Transaction): Promise<boolean> {
+  const dedupeKey = `job-${notice.kind}-${job.id}-${key}`;
+  if (await alreadyQueued(job.networkId, dedupeKey, transaction)) return false;
   const c = await mailContext(job, transaction);
   if (!c || c.customer.noticesOptOut) return false;
   const { url } = await issueLinkToken(job, null, transaction);
@@ -186,6 +194,6 @@ export async function queueCustomerNotice(job: Job, notice: CustomerNotice, key:
     '',
     `You get this because ${c.shop.name} has your instrument. To stop these notices, tell the shop; estimates that need your approval still come.`,
   ].join('\n');
-  await queueEmail({ networkId: job.networkId, dedupeKey: `job-${notice.kind}-${job.id}-${key}`, to: c.customer.email!, subject, text }, transaction);
+  await queueEmail({ networkId: job.networkId, dedupeKey, to: c.customer.email!, subject, text }, transaction);
   return true;
 }

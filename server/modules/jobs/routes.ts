@@ -31,8 +31,8 @@ import {
   updateLineItem,
 } from './service.js';
 
-import { issueCustomerLink, publicJobView, recordCustomerDecision, revokeCustomerLinks, sendEstimate } from './customer-link.js';
-import { customerDecisionSchema } from '../../../shared/customers/public-page.js';
+import { issueCustomerLink, publicJobView, recordCustomerDecision, revokeCustomerLinks, sendEstimate, updateJobCustomer } from './customer-link.js';
+import { customerDecisionSchema, jobCustomerUpdateSchema } from '../../../shared/customers/public-page.js';
 
 export const jobsRouter = Router();
 
@@ -108,6 +108,10 @@ jobsRouter.delete('/api/jobs/:jobId/customer-link', requireActor, async (req, re
 
 jobsRouter.post('/api/jobs/:jobId/estimate/send', requireActor, async (req, res) => {
   res.json(await sendEstimate(actorOf(req), param(req.params.jobId)));
+});
+
+jobsRouter.patch('/api/jobs/:jobId/customer', requireActor, async (req, res) => {
+  res.json(await updateJobCustomer(actorOf(req), param(req.params.jobId), jobCustomerUpdateSchema.parse(req.body)));
 });
 
 /**

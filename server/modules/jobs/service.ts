@@ -642,6 +642,47 @@ export async function moveJobForTransfer(
 }
 
 // ---------------------------------------------------------------------------------------------
+// Customer notices from other steps
+
+/**
+ * Tells the customer their instrument went to another shop. The why is said in plain words from the job's
+ * required skill; the transfer's own reason is staff writing and stays inside the network.
+ */
+export async function noticeCustomerOfTransfer(job: Job, toShopName: string, transferId: string, transaction: Transaction) {
+  const skill = job.requiredSkillId ? await Skill.findOne({ where: { networkId: job.networkId, id: job.requiredSkillId }, transaction }) : null;
+  const why = skill
+    ? `the work it needs (${skill.name.toLowerCase()}) is done best by the specialist there.`
+    : 'that shop has the bench and the specialist this work needs.';
+  return queueCustomerNotice(job, { kind: 'transfer', toShopName, why }, transferId, transaction);
+}
+
+/** Days a finished instrument may wait before the customer gets a reminder (once per time it is ready). */
+export const PICKUP_REMINDER_DAYS = 7;
+
+/**
+ * The daily sweep: a reminder to every customer whose instrument has waited ready and uncollected for
+ * PICKUP_REMINDER_DAYS days or more. The outbox key holds the ready time, so each wait reminds once however
+ * often the sweep runs.
+ */
+export async function sendPickupReminders(now = new Date()): Promise<{ reminded: number }> {
+  const cutoff = new Date(now.getTime() - PICKUP_REMINDER_DAYS * 86_400_000);
+  const jobs = await Job.findAll({
+    where: { stage: 'ready', readyAt: { [Op.lte]: cutoff }, customerId: { [Op.ne]: null } },
+    order: [['readyAt', 'ASC']],
+    limit: 2000,
+  });
+  let reminded = 0;
+  for (const job of jobs) {
+    const days = Math.floor((now.getTime() - job.readyAt!.getTime()) / 86_400_000);
+    const sent = await sequelize.transaction((transaction) =>
+      queueCustomerNotice(job, { kind: 'reminder', days }, `ready-${job.readyAt!.getTime()}`, transaction),
+    );
+    if (sent) reminded++;
+  }
+  return { reminded };
+}
+
+// ---------------------------------------------------------------------------------------------
 // Estimate: line items and approval
 
 async function editableJob(actor: Actor, jobId: string, transaction: Transaction) {

@@ -69,6 +69,16 @@ export const cases: RouteCase[] = [
     foreignIds: {},
   },
   {
+    route: 'PATCH /api/jobs/:jobId/customer',
+    build: async ({ world, scope }) => ({
+      path: `/api/jobs/${(await freshJob(world, scope, 'assessed')).id}/customer`,
+      body: { noticesOptOut: true },
+    }),
+    // the desk of a shop that serves the customer: the owner too, and only at shops where the customer is served
+    allow: { owner: EVERY_SHOP, regional_manager: OWN, front_desk: OWN },
+    foreignIds: {},
+  },
+  {
     // public: the token is the key; the answer names no customer
     route: 'GET /api/public/jobs/:token',
     build: async ({ world, scope }) => ({ path: `/api/public/jobs/${await tokenFor(await freshJob(world, scope, 'assessed'))}` }),
