@@ -94,6 +94,7 @@ export const jobApi = {
   approve: (jobId: string, body: object) => api.post<JobDetail>(`/api/jobs/${jobId}/approval`, body),
   sendEstimate: (jobId: string) => api.post<JobDetail>(`/api/jobs/${jobId}/estimate/send`, {}),
   issueCustomerLink: (jobId: string) => api.post<{ url: string }>(`/api/jobs/${jobId}/customer-link`, {}),
+  updateCustomer: (jobId: string, body: object) => api.patch<JobDetail>(`/api/jobs/${jobId}/customer`, body),
   revokeCustomerLinks: (jobId: string) => api.delete<JobDetail>(`/api/jobs/${jobId}/customer-link`),
   logTime: (jobId: string, body: object) => api.post<JobDetail>(`/api/jobs/${jobId}/time-logs`, body),
   removeTime: (jobId: string, logId: string) => api.delete<JobDetail>(`/api/jobs/${jobId}/time-logs/${logId}`),

@@ -1,13 +1,49 @@
-import { useState } from 'react';
+import { useState, type FormEvent } from 'react';
 import { useMutation } from '@tanstack/react-query';
 import type { JobDetail } from '@shared/jobs/dto';
 import { ESTIMATE_APPROVAL_METHOD_LABELS } from '@shared/jobs/schemas';
 import { formatCents } from '@shared/jobs/estimate';
 import { Button } from '@/components/ui/button';
-import { FormError } from '@/components/ui/form-controls';
+import { controlClasses, Field, FormError } from '@/components/ui/form-controls';
 import { isApiError } from '@/lib/api-client';
 import { jobApi, useJobMutation } from '../queries';
 import { formatInShop } from '../format';
+
+function CustomerPaperwork({ detail }: { detail: JobDetail }) {
+  const customer = detail.customer!;
+  const jobId = detail.job.id;
+  const [po, setPo] = useState(customer.poNumber ?? '');
+  const [certificate, setCertificate] = useState(customer.taxExemptCertificate ?? '');
+  const [optOut, setOptOut] = useState(customer.noticesOptOut);
+  const save = useJobMutation(jobId, (body: object) => jobApi.updateCustomer(jobId, body));
+  const fields = isApiError(save.error) ? save.error.fieldErrors : {};
+  const submit = (event: FormEvent) => {
+    event.preventDefault();
+    save.mutate({ poNumber: po.trim() || null, taxExemptCertificate: certificate.trim() || null, noticesOptOut: optOut });
+  };
+  return (
+    <form onSubmit={submit} className="flex flex-col gap-3" aria-label="Customer paperwork and notices">
+      {customer.kind !== 'person' ? (
+        <>
+          <Field label="Purchase order" hint="Printed on the estimate and the invoice." error={fields.poNumber}>
+            <input className={controlClasses} value={po} onChange={(e) => setPo(e.target.value)} maxLength={100} autoComplete="off" />
+          </Field>
+          <Field label="Tax-exempt certificate" error={fields.taxExemptCertificate}>
+            <input className={controlClasses} value={certificate} onChange={(e) => setCertificate(e.target.value)} maxLength={100} autoComplete="off" />
+          </Field>
+        </>
+      ) : null}
+      <label className="flex min-h-11 items-center gap-2">
+        <input type="checkbox" checked={optOut} onChange={(e) => setOptOut(e.target.checked)} className="size-5 accent-accent-600" />
+        No notices by e-mail (estimates that need approval still go out)
+      </label>
+      <FormError message={save.error && !Object.keys(fields).length ? errorText(save.error) : null} />
+      <Button type="submit" variant="secondary" disabled={save.isPending}>
+        {save.isPending ? 'Saving…' : 'Save customer details'}
+      </Button>
+    </form>
+  );
+}
 
 const errorText = (error: unknown) => (error ? (isApiError(error) ? error.message : 'That did not work. Try again.') : null);
 
@@ -76,6 +112,7 @@ export function CustomerLinkPanel({ detail }: { detail: JobDetail }) {
           <FormError message={errorText(send.error) ?? errorText(issue.error) ?? errorText(revoke.error)} />
         </div>
       ) : null}
+      {detail.can.customerLink && detail.customer?.contactShown ? <CustomerPaperwork detail={detail} /> : null}
     </div>
   );
 }
