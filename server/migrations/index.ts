@@ -10,6 +10,7 @@ import * as approvalEventsWithoutNames from './0011-approval-events-without-name
 import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 import * as shopClosingDays from './0015-shop-closing-days.js';
 import * as customerLinksAndDecisions from './0017-customer-links-and-decisions.js';
+import * as intakeAccessories from './0018-intake-accessories.js';
 
 type Step = (params: { context: QueryInterface }) => Promise<void>;
 
@@ -29,4 +30,5 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
   { name: '0015-shop-closing-days', ...shopClosingDays },
   { name: '0017-customer-links-and-decisions', ...customerLinksAndDecisions },
+  { name: '0018-intake-accessories', ...intakeAccessories },
 ];

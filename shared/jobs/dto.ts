@@ -1,7 +1,7 @@
 import type { InstrumentFamily, JobStage } from '../domain.js';
 import type { EstimateTotals } from './estimate.js';
 import type { MoveOption } from './stage-machine.js';
-import type { EstimateApprovalMethod } from './schemas.js';
+import type { EstimateApprovalMethod, IntakeAccessory } from './schemas.js';
 
 /** The JSON the jobs API answers with; the client reads the same types. Dates are ISO strings. */
 
@@ -99,6 +99,9 @@ export interface JobDetail {
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;
+    /** What came in with the instrument (ticked at the counter), and anything else typed. */
+    accessories: IntakeAccessory[];
+    accessoriesOther: string | null;
     /** Where the customer collects it (the shop that took it in). */
     pickupShop: PersonRef | null;
   };

@@ -2,12 +2,14 @@ import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '../../lib/auth.js';
 import { AppError, conflict, forbidden } from '../../lib/errors.js';
 import { assertCan } from '../../lib/access.js';
-import { Customer, CustomerLink, EstimateDecision, Instrument, Job, JobLineItem, Shop, Transfer, sequelize } from '../../lib/models.js';
+import { Attachment, Customer, CustomerLink, EstimateDecision, Instrument, Job, JobLineItem, Shop, Transfer, sequelize } from '../../lib/models.js';
 import { INSTRUMENT_FAMILY_LABELS } from '../../../shared/domain.js';
 import { formatCents, lineTotalCents } from '../../../shared/jobs/estimate.js';
 import { formatCalendarDate } from '../../../shared/jobs/promised-date.js';
 import { estimateNeedsReapproval, mayRecordApproval } from '../../../shared/jobs/stage-machine.js';
-import type { EstimateApprovalMethod } from '../../../shared/jobs/schemas.js';
+import { INTAKE_ACCESSORY_LABELS, type EstimateApprovalMethod, type IntakeAccessory } from '../../../shared/jobs/schemas.js';
+import { config } from '../../config.js';
+import { renderClaimTicket } from './claim-ticket.js';
 import { formatDateTime } from '../../../shared/time/format.js';
 import { formatWeekdays } from '../../../shared/routing/rank.js';
 import {
@@ -108,6 +110,45 @@ export async function updateJobCustomer(actor: Actor, jobId: string, input: JobC
     await Customer.update(changes, { where: { networkId: job.networkId, id: job.customerId }, transaction });
   });
   return jobDetail(actor, jobId);
+}
+
+/**
+ * The claim ticket the counter prints at intake (desk and bench people who may change the job). The
+ * customer's name is printed only for those who may see it (the registry's rule).
+ */
+export async function claimTicketPdf(actor: Actor, jobId: string): Promise<{ number: number; pdf: Buffer }> {
+  const job = await readableJob(actor, jobId);
+  assertCan(actor.ability, 'update', 'Job', job.get({ plain: true }) as never, 'You cannot print tickets for jobs at this shop.');
+  const where = { networkId: job.networkId };
+  const [shop, instrument, customer, photoCount] = await Promise.all([
+    Shop.findOne({ where: { ...where, id: job.shopId } }),
+    Instrument.findOne({ where: { ...where, id: job.instrumentId } }),
+    customerViewById(actor, job.customerId ?? null),
+    Attachment.count({ where: { ...where, jobId: job.id, kind: 'photo', status: 'stored' } }),
+  ]);
+  const pdf = await renderClaimTicket({
+    jobNumber: job.number,
+    url: `${config.appOrigin}/jobs/${job.id}?shop=${job.shopId}`,
+    shop: { name: shop!.name, address: shopAddress(shop!), phone: shop!.phone ?? null, timeZone: shop!.timeZone },
+    openedAt: job.openedAt,
+    promisedOn: job.promisedOn ?? null,
+    instrument: {
+      family: INSTRUMENT_FAMILY_LABELS[instrument!.family],
+      maker: instrument!.maker,
+      model: instrument!.model ?? null,
+      serial: instrument!.serial,
+    },
+    customerName: customer?.name ?? null,
+    complaint: job.complaint,
+    conditionNotes: job.conditionNotes ?? null,
+    accessories: [
+      ...(job.accessories ?? []).map((a) => INTAKE_ACCESSORY_LABELS[a as IntakeAccessory] ?? a),
+      ...(job.accessoriesOther ? [job.accessoriesOther] : []),
+    ],
+    photoCount,
+    printedAt: new Date(),
+  });
+  return { number: job.number, pdf };
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -68,6 +68,9 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare stageBeforeHold: CreationOptional<MainJobStage | null>;
   declare complaint: CreationOptional<string>;
   declare conditionNotes: CreationOptional<string | null>;
+  /** Ticked at the counter (INTAKE_ACCESSORIES); anything else in `accessoriesOther`. */
+  declare accessories: CreationOptional<string[]>;
+  declare accessoriesOther: CreationOptional<string | null>;
   /** 'YYYY-MM-DD', a calendar date in the shop's time zone. */
   declare promisedOn: CreationOptional<string | null>;
   declare assignedUserId: CreationOptional<string | null>;
@@ -105,6 +108,8 @@ Job.init(
     stageBeforeHold: { type: DataTypes.TEXT, validate: oneOf(JOB_STAGES) },
     complaint: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
     conditionNotes: DataTypes.TEXT,
+    accessories: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
+    accessoriesOther: DataTypes.TEXT,
     promisedOn: DataTypes.DATEONLY,
     assignedUserId: optionalRefColumn(),
     requiredSkillId: optionalRefColumn(),

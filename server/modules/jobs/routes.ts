@@ -31,7 +31,7 @@ import {
   updateLineItem,
 } from './service.js';
 
-import { issueCustomerLink, publicJobView, recordCustomerDecision, revokeCustomerLinks, sendEstimate, updateJobCustomer } from './customer-link.js';
+import { claimTicketPdf, issueCustomerLink, publicJobView, recordCustomerDecision, revokeCustomerLinks, sendEstimate, updateJobCustomer } from './customer-link.js';
 import { customerDecisionSchema, jobCustomerUpdateSchema } from '../../../shared/customers/public-page.js';
 
 export const jobsRouter = Router();
@@ -112,6 +112,12 @@ jobsRouter.post('/api/jobs/:jobId/estimate/send', requireActor, async (req, res)
 
 jobsRouter.patch('/api/jobs/:jobId/customer', requireActor, async (req, res) => {
   res.json(await updateJobCustomer(actorOf(req), param(req.params.jobId), jobCustomerUpdateSchema.parse(req.body)));
+});
+
+jobsRouter.get('/api/jobs/:jobId/claim-ticket.pdf', requireActor, async (req, res) => {
+  const { number, pdf } = await claimTicketPdf(actorOf(req), param(req.params.jobId));
+  res.set('Cache-Control', 'no-store');
+  res.type('application/pdf').set('Content-Disposition', `inline; filename="claim-ticket-job-${number}.pdf"`).send(pdf);
 });
 
 /**

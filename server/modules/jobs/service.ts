@@ -46,6 +46,9 @@ import {
 import { cautionsFor } from '../../../shared/jobs/cautions.js';
 import { CUSTOMER_LINK_DAYS_AFTER_RELEASE } from '../../../shared/customers/public-page.js';
 import {
+  INTAKE_ACCESSORIES,
+  INTAKE_ACCESSORY_LABELS,
+  type IntakeAccessory,
   ESTIMATE_APPROVAL_METHOD_LABELS,
   type approvalSchema,
   type BoardQuery,
@@ -384,6 +387,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     job: {
       ...toSummary(job, new Map(customer ? [[customer.id, customer.name]] : [])),
       conditionNotes: job.conditionNotes ?? null,
+      accessories: (job.accessories ?? []) as IntakeAccessory[],
+      accessoriesOther: job.accessoriesOther ?? null,
       estimatedHours: job.estimatedHours ?? null,
       estimateApproval:
         job.estimateApprovedAt && job.estimateApprovedByName && job.estimateApprovalMethod
@@ -523,6 +528,12 @@ export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): 
     }
     if (input.complaint !== undefined) changes.complaint = input.complaint;
     if (input.conditionNotes !== undefined) changes.conditionNotes = input.conditionNotes || null;
+    if (input.accessories !== undefined) {
+      // kept in the list's order, each once
+      changes.accessories = INTAKE_ACCESSORIES.filter((a) => input.accessories!.includes(a));
+      notes.push(`came with: ${changes.accessories.map((a) => INTAKE_ACCESSORY_LABELS[a as IntakeAccessory].toLowerCase()).join(', ') || 'nothing ticked'}`);
+    }
+    if (input.accessoriesOther !== undefined) changes.accessoriesOther = input.accessoriesOther || null;
 
     await job.update(changes, { transaction });
     if (notes.length) {

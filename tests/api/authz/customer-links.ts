@@ -79,6 +79,12 @@ export const cases: RouteCase[] = [
     foreignIds: {},
   },
   {
+    route: 'GET /api/jobs/:jobId/claim-ticket.pdf',
+    build: async ({ world, scope }) => ({ path: `/api/jobs/${(await freshJob(world, scope, 'intake')).id}/claim-ticket.pdf` }),
+    // printed by those who work the job (the counter, the bench); auditors read, they do not print
+    allow: { owner: EVERY_SHOP, regional_manager: OWN, front_desk: OWN, technician: OWN },
+  },
+  {
     // public: the token is the key; the answer names no customer
     route: 'GET /api/public/jobs/:token',
     build: async ({ world, scope }) => ({ path: `/api/public/jobs/${await tokenFor(await freshJob(world, scope, 'assessed'))}` }),
