@@ -53,6 +53,12 @@ export async function startMailCatcher(opts: MailCatcherOptions): Promise<Runnin
       subject: parsed.subject ?? '',
       text: parsed.text ?? '',
       html: typeof parsed.html === 'string' ? parsed.html : null,
+      attachments: parsed.attachments.map((a) => ({
+        filename: a.filename ?? '',
+        contentType: a.contentType,
+        size: a.size,
+        contentBase64: a.content.toString('base64'),
+      })),
     };
     // Write then rename so a reader never sees half a file; the dot keeps it out of listings.
     const temporary = path.join(opts.directory, `.${id}.json.tmp`);

@@ -16,7 +16,7 @@ import { reportsRouter } from './modules/reports/routes.js';
 import { registryRouter } from './modules/registry/routes.js';
 import { padmapsRouter } from './modules/padmaps/routes.js';
 import { stockRouter } from './modules/stock/routes.js';
-import { jobsRouter } from './modules/jobs/routes.js';
+import { jobsRouter, publicJobsRouter } from './modules/jobs/routes.js';
 import { filesRouter } from './modules/files/routes.js';
 import { transfersRouter } from './modules/transfers/routes.js';
 import { notificationsRouter } from './modules/notifications/routes.js';
@@ -71,6 +71,8 @@ export function buildApp(options: AppOptions = {}) {
   app.get(['/api/instruments/search', '/api/instruments/serial-check', '/api/customers'], limit.search);
   app.post('/api/instruments/import', limit.imports);
   app.post(['/api/jobs/:jobId/attachments', '/api/attachments/:attachmentId/upload-url'], limit.uploads);
+  app.get('/api/public/jobs/:token', limit.customerLinks);
+  app.post('/api/public/jobs/:token/decision', limit.customerLinks);
 
   app.use(authRouter);
   app.use(meRouter);
@@ -84,6 +86,7 @@ export function buildApp(options: AppOptions = {}) {
   app.use(padmapsRouter);
   app.use(stockRouter);
   app.use(jobsRouter);
+  app.use(publicJobsRouter);
   app.use(filesRouter);
   app.use(transfersRouter);
   app.use(notificationsRouter);

@@ -122,6 +122,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env) {
       search: wholeNumber(env, 'RATE_LIMIT_SEARCH', 120),
       imports: wholeNumber(env, 'RATE_LIMIT_IMPORTS', 20),
       uploads: wholeNumber(env, 'RATE_LIMIT_UPLOADS', 60),
+      /** the customer's public job page and its approve/decline, per address */
+      customerLinks: wholeNumber(env, 'RATE_LIMIT_CUSTOMER_LINKS', 60),
       /** Counts are shared by every app using the same namespace on the same database. */
       namespace: 'benchrelay',
     },

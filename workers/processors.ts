@@ -6,6 +6,7 @@ import { applyTransferStep, checkTransferArrival, scheduleOpenArrivalChecks } fr
 import { deliverOutbox, deliverOutboxMessage } from '../server/modules/notifications/service.js';
 import type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../server/modules/transfers/queue.js';
 import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
+import { sendPickupReminders } from '../server/modules/jobs/service.js';
 
 /**
  * Tests only: `BENCHRELAY_CRASH_AFTER_COMMIT=<job name>` ends the process right after that job's
@@ -40,6 +41,8 @@ export const processors = {
   // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed
   'expire-upload': async (job: Job<{ networkId: string; attachmentId: string }>) =>
     expireUpload(job.data.networkId, job.data.attachmentId),
+  // once a day (scheduler below): reminders for instruments ready and uncollected for 7 days
+  'customer-pickup-reminders': async () => sendPickupReminders(),
   // job id `outbox-<outboxId>`: one delivery per outbox row
   'deliver-outbox': async (job: Job<{ networkId: string; outboxId: string }>) =>
     deliverOutboxMessage(job.data.networkId, job.data.outboxId),
@@ -76,9 +79,13 @@ export function startWorker(concurrency = 4, tuning: WorkerTuning = {}) {
 /**
  * Work a worker sets up when it starts. E-mails left pending (their send job gave up while the mail
  * server was down) go out with the next sweep, every ten minutes; sending is per row and marks the row,
- * so a sweep never repeats a message. Every transfer on the road gets its arrival check.
+ * so a sweep never repeats a message. Every transfer on the road gets its arrival check. Once a day,
+ * customers whose instrument waits ready and uncollected for 7 days get a reminder.
  */
 export async function scheduleStartupWork() {
   await appQueue().upsertJobScheduler('outbox-sweep', { every: 10 * 60_000 }, { name: 'send-outbox', data: {} });
+  // 16:00 UTC is morning across the Americas: the reminder arrives when a shop's day starts. Each wait
+  // reminds once (the outbox key holds the ready time), so a sweep that runs twice sends nothing twice.
+  await appQueue().upsertJobScheduler('pickup-reminders', { pattern: '0 16 * * *' }, { name: 'customer-pickup-reminders', data: {} });
   await scheduleOpenArrivalChecks();
 }

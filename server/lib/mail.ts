@@ -12,6 +12,15 @@ export interface CaughtMail {
   subject: string;
   text: string;
   html: string | null;
+  /** Files sent with the message (the catcher keeps them so tests can read them). */
+  attachments?: Array<{ filename: string; contentType: string; size: number; contentBase64: string }>;
+}
+
+export interface MailAttachment {
+  filename: string;
+  contentType: string;
+  /** base64: outbox rows keep their message as JSON */
+  contentBase64: string;
 }
 
 export interface OutgoingMail {
@@ -19,7 +28,12 @@ export interface OutgoingMail {
   subject: string;
   text: string;
   html?: string;
+  attachments?: MailAttachment[];
 }
+
+/** nodemailer's shape of the attachments an outbox row keeps. */
+export const mailAttachments = (list: MailAttachment[] | undefined) =>
+  (list ?? []).map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.contentBase64, 'base64') }));
 
 const CHECK_TIMEOUT_MS = 2000;
 
@@ -44,7 +58,8 @@ export function createMailer(smtp: Config['smtp']) {
   const transport = nodemailer.createTransport(transportOptions(smtp));
 
   async function sendMail(mail: OutgoingMail): Promise<string> {
-    const info = await transport.sendMail({ from: smtp.from, ...mail });
+    const { attachments, ...rest } = mail;
+    const info = await transport.sendMail({ from: smtp.from, ...rest, attachments: mailAttachments(attachments) });
     return info.messageId;
   }
 

@@ -2,7 +2,7 @@ import type { NonAttribute } from 'sequelize';
 import { Network, RelayRun, Shop, ShopClosingDay, ShopSkill, Skill } from '../modules/networks/models.js';
 import { AuditLog, Invitation, Membership, TechnicianSkill, User } from '../modules/members/models.js';
 import { Customer, HistoryEvent, Instrument } from '../modules/registry/models.js';
-import { Job, JobLineItem, ServiceCatalogItem, TimeLog } from '../modules/jobs/models.js';
+import { CustomerLink, EstimateDecision, Job, JobLineItem, ServiceCatalogItem, TimeLog } from '../modules/jobs/models.js';
 import { Attachment } from '../modules/files/models.js';
 import { Transfer } from '../modules/transfers/models.js';
 import { PadMap } from '../modules/padmaps/models.js';
@@ -22,7 +22,7 @@ export {
   Network, Shop, Skill, ShopSkill, ShopClosingDay, RelayRun,
   User, Membership, TechnicianSkill, Invitation, AuditLog,
   Customer, Instrument, HistoryEvent,
-  Job, JobLineItem, TimeLog, ServiceCatalogItem,
+  Job, JobLineItem, TimeLog, ServiceCatalogItem, EstimateDecision, CustomerLink,
   Attachment, Transfer, PadMap,
   Part, StockLevel, StockReservation,
   Notification, NotificationPreference, OutboxMessage,

@@ -6,7 +6,7 @@ import { AppError } from './errors.js';
 import { logger } from './logger.js';
 
 export type RateLimits = Config['rateLimits'];
-export type LimitedDoor = 'signIn' | 'invitations' | 'search' | 'imports' | 'uploads';
+export type LimitedDoor = 'signIn' | 'invitations' | 'search' | 'imports' | 'uploads' | 'customerLinks';
 
 const DOORS: Record<LimitedDoor, { what: string; perPerson: boolean }> = {
   // before sign-in there is no person: the address is who guesses codes and invitation tokens
@@ -15,6 +15,8 @@ const DOORS: Record<LimitedDoor, { what: string; perPerson: boolean }> = {
   search: { what: 'searches', perPerson: true },
   imports: { what: 'imports', perPerson: true },
   uploads: { what: 'uploads', perPerson: true },
+  // the customer's page has no account: the address is who would guess tokens
+  customerLinks: { what: 'requests for this page', perPerson: false },
 };
 
 /** Every store this process opened, so tests and shutdown can end their pools. */
@@ -74,7 +76,7 @@ export function rateLimiters(limits: RateLimits = config.rateLimits, databaseUrl
     openStores.add(store);
     return limiter;
   };
-  return { signIn: build('signIn'), invitations: build('invitations'), search: build('search'), imports: build('imports'), uploads: build('uploads') };
+  return { signIn: build('signIn'), invitations: build('invitations'), search: build('search'), imports: build('imports'), uploads: build('uploads'), customerLinks: build('customerLinks') };
 }
 
 /** Ends the pools of every limiter built in this process. */

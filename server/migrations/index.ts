@@ -9,6 +9,8 @@ import * as attachmentEtag from './0009-attachment-etag.js';
 import * as approvalEventsWithoutNames from './0011-approval-events-without-names.js';
 import * as runDepartureAndApprovedEstimate from './0014-run-departure-and-approved-estimate.js';
 import * as shopClosingDays from './0015-shop-closing-days.js';
+import * as customerLinksAndDecisions from './0017-customer-links-and-decisions.js';
+import * as intakeAccessories from './0018-intake-accessories.js';
 import * as hazardTags from './0020-hazard-tags.js';
 import * as hazardTagsFromNames from './0021-hazard-tags-from-names.js';
 
@@ -29,6 +31,8 @@ export const migrations: Array<{ name: string; up: Step; down: Step }> = [
   { name: '0011-approval-events-without-names', ...approvalEventsWithoutNames },
   { name: '0014-run-departure-and-approved-estimate', ...runDepartureAndApprovedEstimate },
   { name: '0015-shop-closing-days', ...shopClosingDays },
+  { name: '0017-customer-links-and-decisions', ...customerLinksAndDecisions },
+  { name: '0018-intake-accessories', ...intakeAccessories },
   { name: '0020-hazard-tags', ...hazardTags },
   { name: '0021-hazard-tags-from-names', ...hazardTagsFromNames },
 ];

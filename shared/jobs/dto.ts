@@ -1,7 +1,7 @@
 import type { InstrumentFamily, JobStage } from '../domain.js';
 import type { EstimateTotals } from './estimate.js';
 import type { MoveOption } from './stage-machine.js';
-import type { EstimateApprovalMethod } from './schemas.js';
+import type { EstimateApprovalMethod, IntakeAccessory } from './schemas.js';
 import type { Hazard, HazardCaution } from '../safety/hazards.js';
 
 /** The JSON the jobs API answers with; the client reads the same types. Dates are ISO strings. */
@@ -107,7 +107,24 @@ export interface JobDetail {
     readyAt: string | null;
     releasedAt: string | null;
     openedBy: PersonRef | null;
+    /** What came in with the instrument (ticked at the counter), and anything else typed. */
+    accessories: IntakeAccessory[];
+    accessoriesOther: string | null;
+    /** Where the customer collects it (the shop that took it in). */
+    pickupShop: PersonRef | null;
   };
+  /** Every approval and decline, newest first; `name` follows the customer's contact rule. */
+  estimateDecisions: Array<{
+    id: string;
+    decision: 'approved' | 'declined';
+    method: EstimateApprovalMethod;
+    name: string | null;
+    totalCents: number;
+    version: number;
+    at: string;
+  }>;
+  /** The customer's private links: how many still open, when the last was made and last opened. */
+  customerLink: { live: number; lastIssuedAt: string | null; lastOpenedAt: string | null };
   shop: {
     id: string;
     name: string;
@@ -122,7 +139,17 @@ export interface JobDetail {
     taxRateBasisPoints: number;
   };
   /** `name` is null for a private customer whose details stay with the shops that serve them */
-  customer: { id: string; name: string | null; kind: string; email: string | null; phone: string | null; contactShown: boolean } | null;
+  customer: {
+    id: string;
+    name: string | null;
+    kind: string;
+    email: string | null;
+    phone: string | null;
+    contactShown: boolean;
+    poNumber: string | null;
+    taxExemptCertificate: string | null;
+    noticesOptOut: boolean;
+  } | null;
   lineItems: LineItemDto[];
   /** Everything the job's work can hurt someone with: shown beside the move that starts the work, and lifting at intake and hand-back. */
   safety: { hazards: Hazard[]; heavyCase: boolean; cautions: HazardCaution[] };
@@ -139,6 +166,8 @@ export interface JobDetail {
     editEstimate: boolean;
     logTime: boolean;
     addAttachment: boolean;
+    /** Send the estimate, make a new customer link, revoke the links: the front desk and managers. */
+    customerLink: boolean;
   };
   options: { technicians: PersonRef[]; skills: PersonRef[] };
 }

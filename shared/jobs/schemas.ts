@@ -8,12 +8,27 @@ import { hazardsSchema } from '../safety/hazards.js';
  * so both give the same field errors.
  */
 
+/** How the front desk records an approval it was given; the customer's own, from the link, is `link`. */
 export const ESTIMATE_APPROVAL_METHODS = ['in_person', 'phone', 'email'] as const;
-export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number];
+export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number] | 'link';
 export const ESTIMATE_APPROVAL_METHOD_LABELS: Record<EstimateApprovalMethod, string> = {
+  link: 'Customer link',
   in_person: 'In person',
   phone: 'Phone',
   email: 'E-mail',
+};
+
+/** What may come in with an instrument, ticked at the counter; anything else is typed. */
+export const INTAKE_ACCESSORIES = ['case', 'mouthpiece', 'ligature', 'neck', 'strap', 'reeds', 'swab'] as const;
+export type IntakeAccessory = (typeof INTAKE_ACCESSORIES)[number];
+export const INTAKE_ACCESSORY_LABELS: Record<IntakeAccessory, string> = {
+  case: 'Case',
+  mouthpiece: 'Mouthpiece',
+  ligature: 'Ligature',
+  neck: 'Neck',
+  strap: 'Strap',
+  reeds: 'Reeds',
+  swab: 'Swab',
 };
 
 export const BOARD_SORTS = ['promised', 'opened', 'number', 'updated'] as const;
@@ -68,6 +83,8 @@ export const jobUpdateSchema = z
     promiseInOpeningDays: z.number().int().min(0).max(366),
     complaint: z.string().trim().max(4000),
     conditionNotes: z.string().trim().max(4000).nullable(),
+    accessories: z.array(z.enum(INTAKE_ACCESSORIES, { message: 'Choose from the list; type anything else below.' })).max(INTAKE_ACCESSORIES.length),
+    accessoriesOther: z.string().trim().max(500, 'At most 500 characters.').nullable(),
   })
   .partial()
   .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change.' })

@@ -4,6 +4,7 @@ import { AuditLogRoute } from './routes/audit-log';
 import { DashboardRoute } from './routes/dashboard';
 import { DevMailRoute } from './routes/dev-mail';
 import { AcceptInvitationRoute, InvitationRoute } from './routes/invitation';
+import { CustomerJobRoute } from './routes/customer-job';
 import { InviteRoute } from './routes/invite';
 import { PersonRoute } from './routes/person';
 import { ShopRoute } from './routes/shop';
@@ -44,6 +45,8 @@ export const routes: RouteObject[] = [
   // an invitation is opened before its person holds any role, so it sits outside the session gate
   { path: '/invitations/:token', element: <InvitationRoute />, errorElement: <RouteErrorBoundary /> },
   { path: '/invitations/:token/accept', element: <AcceptInvitationRoute />, errorElement: <RouteErrorBoundary /> },
+  // the customer's page of their job: no account, the token in the link is the key
+  { path: '/c/:token', element: <CustomerJobRoute />, errorElement: <RouteErrorBoundary /> },
   {
     path: '/',
     element: <SessionGate />,

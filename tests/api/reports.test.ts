@@ -282,7 +282,7 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     expect(res.headers['content-disposition']).toContain('benchrelay-invoices-2026-03-01-to-2026-03-01-all-shops');
     const [header, ...rows] = res.text.trimEnd().split('\r\n');
     expect(header).toBe(
-      'job_number,released_on,shop_code,shop,customer,instrument,serial,line_no,line_kind,description,hours_or_quantity,unit_price_cents,line_total_cents,line_total,subtotal_cents,tax_rate_percent,tax_cents,total_cents,subtotal,tax,total',
+      'job_number,released_on,shop_code,shop,customer,instrument,serial,line_no,line_kind,description,hours_or_quantity,unit_price_cents,line_total_cents,line_total,subtotal_cents,tax_rate_percent,tax_cents,total_cents,subtotal,tax,total,po_number,tax_exempt_certificate',
     );
     expect(rows).toHaveLength(4);
     const alder = rows.filter((r) => r.startsWith(`${ids['inv1#']},2026-03-01,`));
@@ -296,7 +296,7 @@ describe('reports API: figures, scope per role, CSV and invoices', () => {
     // Birch's job has no line items: one row, zero totals, the customer's formula defused
     const birch = rows.find((r) => r.startsWith(`${ids['binv2#']},2026-03-01,`))!;
     expect(birch).toContain(`"'=HYPERLINK(""http://example.test"",""pay"")"`);
-    expect(birch.endsWith(',,,,,,,0,10,0,0,0.00,0.00,0.00')).toBe(true);
+    expect(birch.endsWith(',,,,,,,0,10,0,0,0.00,0.00,0.00,,')).toBe(true);
 
     // released at 05:30 UTC on 2 March is still 1 March in Seattle: not in a 2 March export
     const next = await request(app).get('/api/reports/invoices.csv?from=2026-03-02&to=2026-03-31').set('Cookie', cookies.owner).expect(200);

@@ -48,4 +48,5 @@ export const testEnv: Record<string, string> = {
   RATE_LIMIT_SEARCH: '100000',
   RATE_LIMIT_IMPORTS: '100000',
   RATE_LIMIT_UPLOADS: '100000',
+  RATE_LIMIT_CUSTOMER_LINKS: '100000',
 };

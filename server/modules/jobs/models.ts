@@ -17,7 +17,7 @@ import { sequelize } from '../../lib/db.js';
 import type { Hazard } from '../../../shared/safety/hazards.js';
 import { decimalColumn, hazardsColumn, idColumn, networkIdColumn, oneOf, optionalRefColumn, refColumn } from '../../lib/columns.js';
 
-export const ESTIMATE_APPROVAL_METHODS = ['in_person', 'phone', 'email'] as const;
+export const ESTIMATE_APPROVAL_METHODS = ['link', 'in_person', 'phone', 'email'] as const;
 export type EstimateApprovalMethod = (typeof ESTIMATE_APPROVAL_METHODS)[number];
 export const LINE_ITEM_KINDS = ['labor', 'part'] as const;
 export type LineItemKind = (typeof LINE_ITEM_KINDS)[number];
@@ -64,12 +64,17 @@ export class Job extends Model<InferAttributes<Job>, InferCreationAttributes<Job
   declare number: number;
   declare instrumentId: string;
   declare shopId: string;
+  /** Where the customer collects it: the shop that took it in (a transfer does not change it). */
+  declare pickupShopId: CreationOptional<string | null>;
   declare customerId: CreationOptional<string | null>;
   declare stage: CreationOptional<JobStage>;
   /** Set exactly while the job is on a hold (waiting_for_parts, in_transit): the stage to resume. */
   declare stageBeforeHold: CreationOptional<MainJobStage | null>;
   declare complaint: CreationOptional<string>;
   declare conditionNotes: CreationOptional<string | null>;
+  /** Ticked at the counter (INTAKE_ACCESSORIES); anything else in `accessoriesOther`. */
+  declare accessories: CreationOptional<string[]>;
+  declare accessoriesOther: CreationOptional<string | null>;
   /** 'YYYY-MM-DD', a calendar date in the shop's time zone. */
   declare promisedOn: CreationOptional<string | null>;
   declare assignedUserId: CreationOptional<string | null>;
@@ -101,11 +106,14 @@ Job.init(
     number: { type: DataTypes.INTEGER, allowNull: false },
     instrumentId: refColumn(),
     shopId: refColumn(),
+    pickupShopId: optionalRefColumn(),
     customerId: optionalRefColumn(),
     stage: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'intake', validate: oneOf(ALL_JOB_STAGES) },
     stageBeforeHold: { type: DataTypes.TEXT, validate: oneOf(JOB_STAGES) },
     complaint: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
     conditionNotes: DataTypes.TEXT,
+    accessories: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
+    accessoriesOther: DataTypes.TEXT,
     promisedOn: DataTypes.DATEONLY,
     assignedUserId: optionalRefColumn(),
     requiredSkillId: optionalRefColumn(),
@@ -195,6 +203,72 @@ TimeLog.init(
     updatedAt: DataTypes.DATE,
   },
   { sequelize, modelName: 'TimeLog', tableName: 'time_logs', underscored: true },
+);
+
+export const ESTIMATE_DECISIONS = ['approved', 'declined'] as const;
+export type EstimateDecisionKind = (typeof ESTIMATE_DECISIONS)[number];
+
+/** One approval or decline of an estimate: who (as typed or told), how, which version, which amount. */
+export class EstimateDecision extends Model<InferAttributes<EstimateDecision>, InferCreationAttributes<EstimateDecision>> {
+  declare id: CreationOptional<string>;
+  declare networkId: string;
+  declare jobId: string;
+  declare decision: EstimateDecisionKind;
+  declare method: EstimateApprovalMethod;
+  declare name: string;
+  declare totalCents: number;
+  declare estimateVersion: number;
+  declare decidedAt: Date;
+  /** null when the customer decided from the link */
+  declare recordedByUserId: CreationOptional<string | null>;
+  declare linkId: CreationOptional<string | null>;
+  declare createdAt: CreationOptional<Date>;
+}
+
+EstimateDecision.init(
+  {
+    id: idColumn(),
+    networkId: networkIdColumn(),
+    jobId: refColumn(),
+    decision: { type: DataTypes.TEXT, allowNull: false, validate: oneOf(ESTIMATE_DECISIONS) },
+    method: { type: DataTypes.TEXT, allowNull: false, validate: oneOf(ESTIMATE_APPROVAL_METHODS) },
+    name: { type: DataTypes.TEXT, allowNull: false },
+    totalCents: { type: DataTypes.INTEGER, allowNull: false },
+    estimateVersion: { type: DataTypes.INTEGER, allowNull: false },
+    decidedAt: { type: DataTypes.DATE, allowNull: false },
+    recordedByUserId: optionalRefColumn(),
+    linkId: optionalRefColumn(),
+    createdAt: DataTypes.DATE,
+  },
+  { sequelize, modelName: 'EstimateDecision', tableName: 'estimate_decisions', underscored: true, updatedAt: false },
+);
+
+/** A private link to a job's public page. Only the token's SHA-256 is stored. */
+export class CustomerLink extends Model<InferAttributes<CustomerLink>, InferCreationAttributes<CustomerLink>> {
+  declare id: CreationOptional<string>;
+  declare networkId: string;
+  declare jobId: string;
+  declare tokenHash: Buffer;
+  declare createdByUserId: CreationOptional<string | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare revokedAt: CreationOptional<Date | null>;
+  declare revokedByUserId: CreationOptional<string | null>;
+  declare lastOpenedAt: CreationOptional<Date | null>;
+}
+
+CustomerLink.init(
+  {
+    id: idColumn(),
+    networkId: networkIdColumn(),
+    jobId: refColumn(),
+    tokenHash: { type: DataTypes.BLOB, allowNull: false },
+    createdByUserId: optionalRefColumn(),
+    createdAt: DataTypes.DATE,
+    revokedAt: DataTypes.DATE,
+    revokedByUserId: optionalRefColumn(),
+    lastOpenedAt: DataTypes.DATE,
+  },
+  { sequelize, modelName: 'CustomerLink', tableName: 'customer_links', underscored: true, updatedAt: false },
 );
 
 const rel = { constraints: false } as const;

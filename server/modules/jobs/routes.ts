@@ -31,6 +31,9 @@ import {
   updateLineItem,
 } from './service.js';
 
+import { claimTicketPdf, issueCustomerLink, publicJobView, recordCustomerDecision, revokeCustomerLinks, sendEstimate, updateJobCustomer } from './customer-link.js';
+import { customerDecisionSchema, jobCustomerUpdateSchema } from '../../../shared/customers/public-page.js';
+
 export const jobsRouter = Router();
 
 // A malformed id is a record that does not exist, not a server error.
@@ -93,4 +96,42 @@ jobsRouter.post('/api/service-catalog', requireActor, async (req, res) => {
 
 jobsRouter.patch('/api/service-catalog/:itemId', requireActor, async (req, res) => {
   res.json({ item: await updateCatalogItem(actorOf(req), param(req.params.itemId), catalogItemUpdateSchema.parse(req.body)) });
+});
+
+jobsRouter.post('/api/jobs/:jobId/customer-link', requireActor, async (req, res) => {
+  res.status(201).json(await issueCustomerLink(actorOf(req), param(req.params.jobId)));
+});
+
+jobsRouter.delete('/api/jobs/:jobId/customer-link', requireActor, async (req, res) => {
+  res.json(await revokeCustomerLinks(actorOf(req), param(req.params.jobId)));
+});
+
+jobsRouter.post('/api/jobs/:jobId/estimate/send', requireActor, async (req, res) => {
+  res.json(await sendEstimate(actorOf(req), param(req.params.jobId)));
+});
+
+jobsRouter.patch('/api/jobs/:jobId/customer', requireActor, async (req, res) => {
+  res.json(await updateJobCustomer(actorOf(req), param(req.params.jobId), jobCustomerUpdateSchema.parse(req.body)));
+});
+
+jobsRouter.get('/api/jobs/:jobId/claim-ticket.pdf', requireActor, async (req, res) => {
+  const { number, pdf } = await claimTicketPdf(actorOf(req), param(req.params.jobId));
+  res.set('Cache-Control', 'no-store');
+  res.type('application/pdf').set('Content-Disposition', `inline; filename="claim-ticket-job-${number}.pdf"`).send(pdf);
+});
+
+/**
+ * The customer's page of a job: no account, the token in the link is the key (rate limited in
+ * server/app.ts). Never cached, so a shared computer's back button does not show it after the link is revoked.
+ */
+export const publicJobsRouter = Router();
+
+publicJobsRouter.get('/api/public/jobs/:token', async (req, res) => {
+  res.set('Cache-Control', 'no-store');
+  res.json(await publicJobView(String(req.params.token)));
+});
+
+publicJobsRouter.post('/api/public/jobs/:token/decision', async (req, res) => {
+  res.set('Cache-Control', 'no-store');
+  res.json(await recordCustomerDecision(String(req.params.token), customerDecisionSchema.parse(req.body)));
 });

@@ -3,6 +3,8 @@ import { Op, QueryTypes, fn, col, type Transaction, type WhereOptions, type Orde
 import type { z } from 'zod';
 import {
   Customer,
+  CustomerLink,
+  EstimateDecision,
   HistoryEvent,
   Instrument,
   Job,
@@ -42,7 +44,11 @@ import {
   type MainStage,
 } from '../../../shared/jobs/stage-machine.js';
 import { cautionsFor, isHeavyCase, normaliseHazards, type Hazard } from '../../../shared/safety/hazards.js';
+import { CUSTOMER_LINK_DAYS_AFTER_RELEASE } from '../../../shared/customers/public-page.js';
 import {
+  INTAKE_ACCESSORIES,
+  INTAKE_ACCESSORY_LABELS,
+  type IntakeAccessory,
   ESTIMATE_APPROVAL_METHOD_LABELS,
   type approvalSchema,
   type BoardQuery,
@@ -66,7 +72,8 @@ import type {
   PersonRef,
   TimeLogDto,
 } from '../../../shared/jobs/dto.js';
-import { notify, peopleAt, queueEmail } from '../notifications/service.js';
+import { notify, peopleAt } from '../notifications/service.js';
+import { queueCustomerNotice, queueEstimateRequest } from './customer-mail.js';
 
 /**
  * Jobs at the bench: the board, the job page, stage moves, the estimate, approvals, time and the
@@ -98,11 +105,16 @@ async function findShop(networkId: string, shopId: string, transaction?: Transac
   return shop;
 }
 
-async function readableJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
+export async function readableJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
   const job = await findJob(actor, jobId, options);
   // a job the person may not read answers like a missing one, so its existence does not leak
   if (!actor.ability.can('read', subject('Job', asRow(job)) as never)) throw notFound('That job');
   return job;
+}
+
+/** A job's customer links stop working 30 days after its release (and whenever revoked). */
+export function linkStillOpen(job: Pick<Job, 'releasedAt'>, now = new Date()): boolean {
+  return !job.releasedAt || now.getTime() < new Date(job.releasedAt).getTime() + CUSTOMER_LINK_DAYS_AFTER_RELEASE * 86_400_000;
 }
 
 export const rolesFor = (actor: Actor, shopId: string): Role[] => rolesAtShop(actor.memberships, shopId);
@@ -392,6 +404,15 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     }) as Promise<(Transfer & { fromShop: Shop; toShop: Shop }) | null>,
     closedDaysOf(actor.networkId, job.shopId),
   ]);
+  const [decisions, links, customerRow, pickupShop] = await Promise.all([
+    EstimateDecision.findAll({ where: { networkId: actor.networkId, jobId: job.id }, order: [['decidedAt', 'DESC'], ['createdAt', 'DESC']] }),
+    CustomerLink.findAll({ where: { networkId: actor.networkId, jobId: job.id }, order: [['createdAt', 'DESC']] }),
+    job.customerId ? Customer.findOne({ where: { networkId: actor.networkId, id: job.customerId } }) : null,
+    Shop.findOne({ where: { networkId: actor.networkId, id: job.pickupShopId ?? job.shopId }, attributes: ['id', 'name'] }),
+  ]);
+  const linkOpen = linkStillOpen(job);
+  const liveLinks = links.filter((l) => !l.revokedAt && linkOpen);
+  const lastOpened = links.map((l) => l.lastOpenedAt).filter((d): d is Date => !!d).sort((a, b) => b.getTime() - a.getTime())[0];
 
   const tags = await lineHazardsOf(actor.networkId, items);
   const heavyCase = isHeavyCase(job.instrument!.family, job.instrument!.heavyCase ?? false);
@@ -426,6 +447,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
     job: {
       ...toSummary(job, new Map(customer ? [[customer.id, customer.name]] : [])),
       conditionNotes: job.conditionNotes ?? null,
+      accessories: (job.accessories ?? []) as IntakeAccessory[],
+      accessoriesOther: job.accessoriesOther ?? null,
       estimatedHours: job.estimatedHours ?? null,
       estimateApproval:
         job.estimateApprovedAt && job.estimateApprovedByName && job.estimateApprovalMethod
@@ -454,7 +477,18 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       readyAt: iso(job.readyAt),
       releasedAt: iso(job.releasedAt),
       openedBy: person(job.openedBy),
+      pickupShop: person(pickupShop),
     },
+    estimateDecisions: decisions.map((d) => ({
+      id: d.id,
+      decision: d.decision,
+      method: d.method,
+      name: !customer || contactShown ? d.name : null,
+      totalCents: d.totalCents,
+      version: d.estimateVersion,
+      at: iso(d.decidedAt)!,
+    })),
+    customerLink: { live: liveLinks.length, lastIssuedAt: iso(links[0]?.createdAt), lastOpenedAt: iso(lastOpened) },
     shop: {
       id: shop.id,
       name: shop.name,
@@ -474,6 +508,9 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
           email: customer.contact?.email ?? null,
           phone: customer.contact?.phone ?? null,
           contactShown,
+          poNumber: contactShown ? (customerRow?.poNumber ?? null) : null,
+          taxExemptCertificate: contactShown ? (customerRow?.taxExemptCertificate ?? null) : null,
+          noticesOptOut: customerRow?.noticesOptOut ?? false,
         }
       : null,
     lineItems: items.map((i) => lineDto(i, tags)),
@@ -492,6 +529,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !ESTIMATE_FROZEN.includes(job.stage),
       logTime: canUpdate,
       addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
+      customerLink: canUpdate && mayRecordApproval(roles) && job.stage !== 'released',
     },
     options: { technicians, skills },
   };
@@ -551,6 +589,12 @@ export async function updateJob(actor: Actor, jobId: string, input: JobUpdate): 
     }
     if (input.complaint !== undefined) changes.complaint = input.complaint;
     if (input.conditionNotes !== undefined) changes.conditionNotes = input.conditionNotes || null;
+    if (input.accessories !== undefined) {
+      // kept in the list's order, each once
+      changes.accessories = INTAKE_ACCESSORIES.filter((a) => input.accessories!.includes(a));
+      notes.push(`came with: ${changes.accessories.map((a) => INTAKE_ACCESSORY_LABELS[a as IntakeAccessory].toLowerCase()).join(', ') || 'nothing ticked'}`);
+    }
+    if (input.accessoriesOther !== undefined) changes.accessoriesOther = input.accessoriesOther || null;
 
     await job.update(changes, { transaction });
     if (notes.length) {
@@ -603,8 +647,9 @@ export async function applyStageMove(
     // the instrument has gone back to its owner
     await Instrument.update({ status: 'in_service' }, { where: { networkId: job.networkId, id: job.instrumentId }, transaction });
   }
-  if (check.to === 'assessed') await queueCustomerMail(job, 'estimate', event.id, transaction);
-  if (check.to === 'ready') await queueCustomerMail(job, 'ready', event.id, transaction);
+  // the estimate goes to the customer as an approval request (with its link and PDF); ready is a notice
+  if (check.to === 'assessed') await queueEstimateRequest(job, { key: event.id, userId: by.userId }, transaction);
+  if (check.to === 'ready') await queueCustomerNotice(job, { kind: 'ready' }, event.id, transaction);
   if (check.to === 'assessed' || check.to === 'ready') await noticeFrontDesk(job, check.to, event.id, by.userId, transaction);
   return { job, from };
 }
@@ -669,57 +714,44 @@ export async function moveJobForTransfer(
 }
 
 // ---------------------------------------------------------------------------------------------
-// Customer e-mails
+// Customer notices from other steps
 
-async function queueCustomerMail(job: Job, kind: 'estimate' | 'ready', eventId: string, transaction: Transaction) {
-  if (!job.customerId) return;
-  const [customer, shop, instrument, items] = await Promise.all([
-    Customer.findOne({ where: { networkId: job.networkId, id: job.customerId }, transaction }),
-    Shop.findOne({ where: { networkId: job.networkId, id: job.shopId }, transaction }),
-    Instrument.findOne({ where: { networkId: job.networkId, id: job.instrumentId }, transaction }),
-    lineItemsOf(job, transaction),
-  ]);
-  if (!customer?.email || !shop || !instrument) return;
-  const what = `${INSTRUMENT_FAMILY_LABELS[instrument.family].toLowerCase()} (${instrument.maker}, serial ${instrument.serial})`;
-  const greeting = `Hello ${customer.contactName?.split(',')[0] || customer.name},`;
-  const reach = [shop.phone, shop.email].filter(Boolean).join(' or ');
-  let subject: string;
-  let text: string;
-  if (kind === 'estimate') {
-    const totals = estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints);
-    const lines = items.map((item) => `  ${item.description.padEnd(44)} ${formatCents(lineTotalCents(toEstimateLine(item))).padStart(12)}`);
-    subject = `Estimate for job ${job.number} awaits your approval — ${shop.name}`;
-    text = [
-      greeting,
-      '',
-      `We have looked at your ${what}. Here is our estimate for job ${job.number}:`,
-      '',
-      ...lines,
-      '',
-      `  ${'Subtotal'.padEnd(44)} ${formatCents(totals.subtotalCents).padStart(12)}`,
-      `  ${`Tax (${formatBasisPoints(totals.taxRateBasisPoints)})`.padEnd(44)} ${formatCents(totals.taxCents).padStart(12)}`,
-      `  ${'Total'.padEnd(44)} ${formatCents(totals.totalCents).padStart(12)}`,
-      '',
-      `Work starts once you approve. Reply to this e-mail${reach ? ` or contact us at ${reach}` : ''}.`,
-      '',
-      shop.name,
-    ].join('\n');
-  } else {
-    subject = `Your ${INSTRUMENT_FAMILY_LABELS[instrument.family].toLowerCase()} is ready — job ${job.number}, ${shop.name}`;
-    text = [
-      greeting,
-      '',
-      `Your ${what} has passed its final check and is ready to collect at ${shop.name}${shop.addressLine ? `, ${shop.addressLine}, ${shop.city ?? ''}` : ''}.`,
-      '',
-      reach ? `Questions? Contact us at ${reach}.` : '',
-      '',
-      shop.name,
-    ].join('\n');
+/**
+ * Tells the customer their instrument went to another shop. The why is said in plain words from the job's
+ * required skill; the transfer's own reason is staff writing and stays inside the network.
+ */
+export async function noticeCustomerOfTransfer(job: Job, toShopName: string, transferId: string, transaction: Transaction) {
+  const skill = job.requiredSkillId ? await Skill.findOne({ where: { networkId: job.networkId, id: job.requiredSkillId }, transaction }) : null;
+  const why = skill
+    ? `the work it needs (${skill.name.toLowerCase()}) is done best by the specialist there.`
+    : 'that shop has the bench and the specialist this work needs.';
+  return queueCustomerNotice(job, { kind: 'transfer', toShopName, why }, transferId, transaction);
+}
+
+/** Days a finished instrument may wait before the customer gets a reminder (once per time it is ready). */
+export const PICKUP_REMINDER_DAYS = 7;
+
+/**
+ * The daily sweep: a reminder to every customer whose instrument has waited ready and uncollected for
+ * PICKUP_REMINDER_DAYS days or more. The outbox key holds the ready time, so each wait reminds once however
+ * often the sweep runs.
+ */
+export async function sendPickupReminders(now = new Date()): Promise<{ reminded: number }> {
+  const cutoff = new Date(now.getTime() - PICKUP_REMINDER_DAYS * 86_400_000);
+  const jobs = await Job.findAll({
+    where: { stage: 'ready', readyAt: { [Op.lte]: cutoff }, customerId: { [Op.ne]: null } },
+    order: [['readyAt', 'ASC']],
+    limit: 2000,
+  });
+  let reminded = 0;
+  for (const job of jobs) {
+    const days = Math.floor((now.getTime() - job.readyAt!.getTime()) / 86_400_000);
+    const sent = await sequelize.transaction((transaction) =>
+      queueCustomerNotice(job, { kind: 'reminder', days }, `ready-${job.readyAt!.getTime()}`, transaction),
+    );
+    if (sent) reminded++;
   }
-  await queueEmail(
-    { networkId: job.networkId, dedupeKey: `job-${kind}-${job.id}-${eventId}`, to: customer.email, subject, text },
-    transaction,
-  );
+  return { reminded };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -771,6 +803,14 @@ export async function recordEstimateChange(
   const version = (job.estimateVersion ?? 0) + 1;
   await job.update({ estimateVersion: version }, { transaction });
   const raised = estimateNeedsReapproval(job, now.totalCents);
+  // the change that first takes the total above the approved amount asks the customer again (a link, a PDF)
+  if (raised && !estimateNeedsReapproval(job, before.totalCents)) {
+    await queueEstimateRequest(
+      job,
+      { key: `v${version}`, userId, raisedFrom: { totalCents: job.approvedTotalCents!, version: job.approvedEstimateVersion ?? 0 } },
+      transaction,
+    );
+  }
   const approvedNote = job.approvedTotalCents != null
     ? raised
       ? `; approved ${formatCents(job.approvedTotalCents)} (v${job.approvedEstimateVersion ?? 0}), now ${formatCents(now.totalCents)}: needs a new approval`
@@ -923,6 +963,13 @@ export async function recordApproval(actor: Actor, jobId: string, input: z.infer
       {
         estimateApprovedAt: at, estimateApprovedByName: input.approvedByName, estimateApprovalMethod: input.method,
         approvedTotalCents: totals.totalCents, approvedEstimateVersion: version,
+      },
+      { transaction },
+    );
+    await EstimateDecision.create(
+      {
+        networkId: job.networkId, jobId: job.id, decision: 'approved', method: input.method, name: input.approvedByName,
+        totalCents: totals.totalCents, estimateVersion: version, decidedAt: at, recordedByUserId: actor.id,
       },
       { transaction },
     );
@@ -1137,6 +1184,7 @@ export async function openJob(actor: Actor, input: OpenJobInput, transaction?: T
       number: next,
       instrumentId: instrument.id,
       shopId: shop.id,
+      pickupShopId: shop.id,
       customerId: input.customerId ?? null,
       stage: 'intake',
       complaint,

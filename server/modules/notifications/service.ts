@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
-import { transport, type OutgoingMail } from '../../lib/mail.js';
+import { mailAttachments, transport, type MailAttachment, type OutgoingMail } from '../../lib/mail.js';
 import { logger } from '../../lib/logger.js';
 import { appQueue } from '../../lib/queue.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
@@ -155,6 +155,7 @@ async function sendClaimed(row: ClaimedRow, transaction: Transaction): Promise<S
       subject: p.subject as string,
       text: p.text as string,
       ...(p.html ? { html: p.html as string } : {}),
+      ...(Array.isArray(p.attachments) ? { attachments: mailAttachments(p.attachments as MailAttachment[]) } : {}),
       messageId: `<${row.id}@outbox.benchrelay>`,
     });
     await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date(), lastError: null }, { where, transaction });

@@ -29,6 +29,11 @@ export class Customer extends Model<InferAttributes<Customer>, InferCreationAttr
   declare address: CreationOptional<string | null>;
   declare homeShopId: CreationOptional<string | null>;
   declare notes: CreationOptional<string | null>;
+  /** Schools and fleets: printed on estimates and invoices. */
+  declare poNumber: CreationOptional<string | null>;
+  declare taxExemptCertificate: CreationOptional<string | null>;
+  /** No notices by e-mail (estimate approval requests still go out). */
+  declare noticesOptOut: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -47,6 +52,9 @@ Customer.init(
     address: DataTypes.TEXT,
     homeShopId: optionalRefColumn(),
     notes: DataTypes.TEXT,
+    poNumber: DataTypes.TEXT,
+    taxExemptCertificate: DataTypes.TEXT,
+    noticesOptOut: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

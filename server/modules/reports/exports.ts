@@ -114,6 +114,7 @@ export function invoicesCsv(invoices: Invoice[]): string {
     const tail = [
       inv.subtotalCents, basisPointsToPercent(inv.taxRateBasisPoints), inv.taxCents, inv.totalCents,
       centsToDecimal(inv.subtotalCents), centsToDecimal(inv.taxCents), centsToDecimal(inv.totalCents),
+      inv.poNumber ?? null, inv.taxExemptCertificate ?? null,
     ];
     const lines = inv.lines.length ? inv.lines : [null];
     lines.forEach((l, i) => {
@@ -130,6 +131,7 @@ export function invoicesCsv(invoices: Invoice[]): string {
       'job_number', 'released_on', 'shop_code', 'shop', 'customer', 'instrument', 'serial',
       'line_no', 'line_kind', 'description', 'hours_or_quantity', 'unit_price_cents', 'line_total_cents', 'line_total',
       'subtotal_cents', 'tax_rate_percent', 'tax_cents', 'total_cents', 'subtotal', 'tax', 'total',
+      'po_number', 'tax_exempt_certificate',
     ],
     rows,
   );

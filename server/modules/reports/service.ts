@@ -493,6 +493,9 @@ export interface Invoice {
   instrument: string;
   serial: string;
   taxRateBasisPoints: number;
+  /** a school's or fleet's paperwork, when the customer's name is shown */
+  poNumber?: string | null;
+  taxExemptCertificate?: string | null;
   lines: InvoiceLine[];
   subtotalCents: number;
   taxCents: number;
@@ -508,7 +511,7 @@ export async function invoices(actor: Actor, query: InvoiceQuery): Promise<{ sho
   const rows = await select<Record<string, unknown>>(
     `select j.id, j.number, s.code as shop_code, s.name as shop_name, s.tax_rate_basis_points,
             to_char(j.released_at at time zone s.time_zone, 'YYYY-MM-DD') as released_on,
-            ${CUSTOMER_COLUMNS}, i.family, i.maker, i.model, i.serial,
+            ${CUSTOMER_COLUMNS}, c.po_number, c.tax_exempt_certificate, i.family, i.maker, i.model, i.serial,
             li.id as line_id, li.kind, li.description, li.hours, li.rate_cents, li.quantity, li.unit_price_cents
        from jobs j
        join shops s on s.network_id = j.network_id and s.id = j.shop_id
@@ -538,9 +541,13 @@ export async function invoices(actor: Actor, query: InvoiceQuery): Promise<{ sho
       }));
       const taxRate = num(head.tax_rate_basis_points);
       const totals = invoiceTotals(inputs, taxRate);
+      const customer = customerOf(head, names);
+      const paperwork = !customer.customerHidden;
       return {
         jobId: head.id as string, jobNumber: num(head.number), releasedOn: head.released_on as string,
-        shopCode: head.shop_code as string, shopName: head.shop_name as string, ...customerOf(head, names),
+        shopCode: head.shop_code as string, shopName: head.shop_name as string, ...customer,
+        poNumber: paperwork ? ((head.po_number as string | null) ?? null) : null,
+        taxExemptCertificate: paperwork ? ((head.tax_exempt_certificate as string | null) ?? null) : null,
         instrument: [familyLabel(head.family as string), head.maker, head.model].filter(Boolean).join(' · '),
         serial: head.serial as string, taxRateBasisPoints: taxRate,
         lines: lines.map((l, i) => ({

@@ -40,7 +40,7 @@ import {
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
 import { isHeavyCase, LIFTING_CAUTION } from '../../../shared/safety/hazards.js';
-import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
+import { currentEstimate, recordEstimateChange, noticeCustomerOfTransfer } from '../jobs/service.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -744,6 +744,8 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
         await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
         await instrument.update({ status: 'in_transit' }, { transaction });
+        // the customer hears where it went and where they still collect it (unless they turned notices off)
+        await noticeCustomerOfTransfer(job, t.toShop.name, transferId, transaction);
         events.push({
           networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.fromShopId, userId: data.actorUserId,
           kind: 'stage_changed', summary: `Job ${job.number}: ${stageLabel(fromStage)} → ${stageLabel('in_transit')}`,

@@ -10,6 +10,7 @@ import { EmptyState } from '@/components/ui/empty-state';
 import { ErrorState } from '@/components/ui/error-state';
 import { PageSpinner } from '@/components/ui/spinner';
 import { ApprovalForm } from '@/features/jobs/components/approval-form';
+import { CustomerLinkPanel } from '@/features/jobs/components/customer-link-panel';
 import { EstimateEditor } from '@/features/jobs/components/estimate-editor';
 import { JobDetailsForm } from '@/features/jobs/components/job-details-form';
 import { JobHistory } from '@/features/jobs/components/job-history';
@@ -135,6 +136,9 @@ export function JobRoute() {
         </Section>
         <Section id="job-approval" title="Customer approval">
           <ApprovalForm detail={d} />
+          <div className="mt-4 border-t border-paper-200 pt-4">
+            <CustomerLinkPanel detail={d} />
+          </div>
         </Section>
         <Section id="job-details" title="Details">
           <JobDetailsForm key={d.job.updatedAt} detail={d} />

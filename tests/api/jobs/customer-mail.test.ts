@@ -41,7 +41,7 @@ describe('e-mails to the customer', () => {
       .expect(201);
     await move(w.cookies.front_desk, job.id, 'assessed');
 
-    const mail = await waitForMail((m) => m.subject.includes(`job ${job.number}`) && m.subject.includes('awaits your approval'), { timeoutMs: 15_000 });
+    const mail = await waitForMail((m) => m.to.includes(w.customer.email!) && m.subject.includes(`job ${job.number}`) && m.subject.includes('awaits your approval'), { timeoutMs: 15_000 });
     expect(mail.to).toEqual([w.customer.email]);
     expect(mail.text).toContain('Hello Tamsin Ordway,');
     expect(mail.text).toContain('serial LK-20931');
@@ -56,7 +56,7 @@ describe('e-mails to the customer', () => {
     const { job } = await makeInstrumentWithJob(w.network.id, w.shop.id, w.people.front_desk.id, { stage: 'quality_check' });
     await job.update({ customerId: w.customer.id, assignedUserId: w.people.technician.id });
     await move(w.cookies.technician, job.id, 'ready');
-    const mail = await waitForMail((m) => m.subject.includes(`ready — job ${job.number}`), { timeoutMs: 15_000 });
+    const mail = await waitForMail((m) => m.to.includes(w.customer.email!) && m.subject.includes(`ready — job ${job.number}`), { timeoutMs: 15_000 });
     expect(mail.to).toEqual([w.customer.email]);
     expect(mail.text).toContain('ready to collect');
 

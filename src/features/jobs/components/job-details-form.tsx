@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from 'react';
 import { addOpeningDays, formatCalendarDate } from '@shared/jobs/promised-date';
 import type { JobDetail } from '@shared/jobs/dto';
+import { INTAKE_ACCESSORIES, INTAKE_ACCESSORY_LABELS, type IntakeAccessory } from '@shared/jobs/schemas';
 import { Button } from '@/components/ui/button';
 import { controlClasses, Field, FormError } from '@/components/ui/form-controls';
 import { isApiError } from '@/lib/api-client';
@@ -18,6 +19,9 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
   const [date, setDate] = useState(job.promisedOn ?? '');
   const [complaint, setComplaint] = useState(job.complaint);
   const [notes, setNotes] = useState(job.conditionNotes ?? '');
+  const [accessories, setAccessories] = useState<IntakeAccessory[]>(job.accessories);
+  const [accessoriesOther, setAccessoriesOther] = useState(job.accessoriesOther ?? '');
+  const toggle = (a: IntakeAccessory) => setAccessories((now) => (now.includes(a) ? now.filter((x) => x !== a) : [...now, a]));
   const save = useJobMutation(job.id, (body: object) => jobApi.update(job.id, body));
   const errors = isApiError(save.error) ? save.error.fieldErrors : {};
   const disabled = !detail.can.update;
@@ -39,6 +43,8 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
       requiredSkillId: skill || null,
       complaint,
       conditionNotes: notes || null,
+      accessories,
+      accessoriesOther: accessoriesOther.trim() || null,
     };
     if (promiseMode === 'days' && dayCount !== null) body.promiseInOpeningDays = dayCount;
     if (promiseMode === 'date' && date !== (job.promisedOn ?? '')) body.promisedOn = date || null;
@@ -107,11 +113,36 @@ export function JobDetailsForm({ detail }: { detail: JobDetail }) {
       <Field label="Condition and notes" error={errors.conditionNotes}>
         <textarea className={controlClasses} rows={3} value={notes} onChange={(e) => setNotes(e.target.value)} disabled={disabled} maxLength={4000} />
       </Field>
+      <fieldset className="flex flex-col gap-2">
+        <legend className="text-sm font-semibold text-ink-800">Came with the instrument</legend>
+        <div className="flex flex-wrap gap-2">
+          {INTAKE_ACCESSORIES.map((a) => (
+            <label key={a} className="flex min-h-11 items-center gap-2 rounded-lg border border-paper-300 px-3 has-[:checked]:border-accent-600 has-[:checked]:bg-accent-50">
+              <input type="checkbox" checked={accessories.includes(a)} onChange={() => toggle(a)} disabled={disabled} className="size-5 accent-accent-600" />
+              {INTAKE_ACCESSORY_LABELS[a]}
+            </label>
+          ))}
+        </div>
+        {errors.accessories ? <p className="text-sm text-danger-700">{errors.accessories}</p> : null}
+      </fieldset>
+      <Field label="Anything else that came with it" error={errors.accessoriesOther}>
+        <input className={controlClasses} value={accessoriesOther} onChange={(e) => setAccessoriesOther(e.target.value)} disabled={disabled} maxLength={500} />
+      </Field>
       <FormError message={save.error && !Object.keys(errors).length ? (isApiError(save.error) ? save.error.message : 'Not saved. Try again.') : null} />
       {detail.can.update ? (
-        <Button type="submit" disabled={save.isPending} className="self-start">
-          {save.isPending ? 'Saving…' : 'Save details'}
-        </Button>
+        <div className="flex flex-wrap items-center gap-3">
+          <Button type="submit" disabled={save.isPending}>
+            {save.isPending ? 'Saving…' : 'Save details'}
+          </Button>
+          <a
+            href={`/api/jobs/${job.id}/claim-ticket.pdf`}
+            target="_blank"
+            rel="noopener"
+            className="font-medium text-accent-700 underline underline-offset-2"
+          >
+            Print claim ticket
+          </a>
+        </div>
       ) : null}
     </form>
   );

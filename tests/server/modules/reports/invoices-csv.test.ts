@@ -23,7 +23,7 @@ describe('invoice CSV with a credit line', () => {
     ]);
     const rows = csv.trimEnd().split('\r\n');
     expect(rows).toHaveLength(4);
-    expect(rows[2]).toBe('1042,2026-05-04,SEA,Test Seattle,Quillon Park Band,Alto saxophone · Testmaker,AB-104 233,2,part,Goodwill credit,1,-2000,-2000,-20.00,16000,10,1600,17600,160.00,16.00,176.00');
-    expect(rows[3]).toBe('1043,2026-05-04,SEA,Test Seattle,,Flute,FL-1,1,part,Refund of a deposit,1,-5000,-5000,-50.00,-5000,10,-500,-5500,-50.00,-5.00,-55.00');
+    expect(rows[2]).toBe('1042,2026-05-04,SEA,Test Seattle,Quillon Park Band,Alto saxophone · Testmaker,AB-104 233,2,part,Goodwill credit,1,-2000,-2000,-20.00,16000,10,1600,17600,160.00,16.00,176.00,,');
+    expect(rows[3]).toBe('1043,2026-05-04,SEA,Test Seattle,,Flute,FL-1,1,part,Refund of a deposit,1,-5000,-5000,-50.00,-5000,10,-500,-5500,-50.00,-5.00,-55.00,,');
   });
 });
