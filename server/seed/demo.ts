@@ -5,7 +5,6 @@ import { QueryTypes, type CreationAttributes, type Transaction } from 'sequelize
 import { JOB_STAGES, type InstrumentFamily, type JobStage, type NotificationKind, type OwnerKind, type Role } from '../../shared/domain.js';
 import {
   Customer,
-  HistoryEvent,
   Instrument,
   Job,
   JobLineItem,
@@ -28,6 +27,7 @@ import {
   sequelize,
 } from '../lib/models.js';
 import { demoPeople } from './demo-people.js';
+import { appendHistoryMany, type HistoryEntry } from '../modules/registry/service.js';
 import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
 import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
 
@@ -813,7 +813,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   await Transfer.bulkCreate(transferRows, t);
 
   // history: every visit's intake, opening and stage changes; transfer steps; a few notes
-  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  const history: HistoryEntry[] = [];
   const label = (s: JobStage) => s.replace(/_/g, ' ');
   for (const j of planned) {
     const iid = instrumentId.get(j.inst.key)!;
@@ -859,7 +859,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     networkId, instrumentId: instrumentId.get('clar8')!, jobId: null, shopId: shopId.SAC, userId: userId.manager, kind: 'note',
     summary: 'Retired from the rental fleet: body cracked beyond economical repair.', data: {}, occurredAt: ago(20),
   });
-  await HistoryEvent.bulkCreate(history, t);
+  await appendHistoryMany(history, transaction);
 
   // Pad maps of earlier repads of Aldmoor AS-300 altos, so the network has sizes to suggest for the
   // next AS-300 and the next repad of each of these serials starts from its map. The nominal cups
@@ -877,7 +877,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   }
   const round2 = (n: number) => Math.round(n * 100) / 100;
   const padMapRows: Array<CreationAttributes<PadMap>> = [];
-  const padMapEvents: Array<CreationAttributes<HistoryEvent>> = [];
+  const padMapEvents: HistoryEntry[] = [];
   for (const key of ['alto1', 'alto3', 'alto7', 'alto9', 'alto10']) {
     const visit = planned.filter((j) => j.inst.key === key && j.stage === 'released').at(-1);
     if (!visit) continue;
@@ -906,7 +906,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     });
   }
   await PadMap.bulkCreate(padMapRows, t);
-  await HistoryEvent.bulkCreate(padMapEvents, t);
+  await appendHistoryMany(padMapEvents, transaction);
 
   // a few notices so the inbox is not empty, worded as the app words them (server/modules/jobs, stock, transfers)
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
@@ -980,7 +980,7 @@ async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: Rus
   const instruments: Array<CreationAttributes<Instrument>> = [];
   const jobs: Array<CreationAttributes<Job>> = [];
   const lines: Array<CreationAttributes<JobLineItem>> = [];
-  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  const history: HistoryEntry[] = [];
   let n = 0;
   RUSH_WEEKS.forEach((count, week) => {
     for (let i = 0; i < count; i++, n++) {
@@ -1020,7 +1020,7 @@ async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: Rus
   await Instrument.bulkCreate(instruments, t);
   await Job.bulkCreate(jobs, t);
   await JobLineItem.bulkCreate(lines, t);
-  await HistoryEvent.bulkCreate(history, t);
+  await appendHistoryMany(history, transaction);
 }
 
 /** Row counts of the demo network, table by table (for the script's report and for checks). */
