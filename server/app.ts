@@ -1,11 +1,14 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import express from 'express';
+import type { Logger } from 'pino';
 import helmet from 'helmet';
 import { config as defaultConfig, type Config } from './config.js';
 import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
 import { sameOriginOnly } from './lib/same-origin.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
+import { logger } from './lib/logger.js';
+import { requestLogger } from './lib/request-log.js';
 import { cachedHealthReport } from './lib/health.js';
 import { rateLimiters } from './lib/rate-limit.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
@@ -27,6 +30,8 @@ export interface AppOptions {
   /** Defaults to `config.rateLimits`; tests build apps with low limits of their own. */
   rateLimits?: Config['rateLimits'];
   healthCacheMs?: number;
+  /** Where request lines go; the app's logger unless given (tests read the lines). */
+  logger?: Logger;
 }
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
@@ -35,6 +40,8 @@ export function buildApp(options: AppOptions = {}) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
+  // first: every answer, refusals included, carries the request's id
+  app.use(requestLogger(options.logger ?? logger));
   app.use(
     helmet({
       contentSecurityPolicy: {
