@@ -4,7 +4,8 @@ import express from 'express';
 import type { Logger } from 'pino';
 import helmet from 'helmet';
 import { config as defaultConfig, type Config } from './config.js';
-import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
+import { sessionMiddleware, sessionLifetime, loadActor, requireActor } from './lib/auth.js';
+import { openApiHandler } from './openapi.js';
 import { sameOriginOnly } from './lib/same-origin.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { logger } from './lib/logger.js';
@@ -69,6 +70,8 @@ export function buildApp(options: AppOptions = {}) {
   app.use(sessionMiddleware(config));
   app.use(sessionLifetime());
   app.use(loadActor(loadActorRecord));
+  // the API's description, for any signed-in person (server/openapi.ts says why not public)
+  app.get('/api/openapi.json', requireActor, openApiHandler);
 
   // after the actor is known: search, imports and uploads count per person, the rest per address
   const limit = rateLimiters(options.rateLimits ?? config.rateLimits);
