@@ -24,12 +24,12 @@ import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type Instr
 import {
   estimateTotals,
   formatBasisPoints,
-  formatCents,
   laborHours,
   lineTotalCents,
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
+import { formatCents } from '../../../shared/money.js';
 import { closedDaysOf } from '../networks/service.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {

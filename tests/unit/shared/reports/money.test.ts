@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { basisPointsToPercent, centsToDecimal, invoiceTotals } from '../../../../shared/reports/money.js';
+import { invoiceTotals } from '../../../../shared/reports/money.js';
+import { basisPointsToPercent, centsToDecimal } from '../../../../shared/money.js';
 
 describe('invoice arithmetic in integer cents (the estimate’s rule)', () => {
   it('rounds each line once, half away from zero; NUMERIC strings from pg are fine', () => {
