@@ -27,6 +27,7 @@ import {
   sequelize,
 } from '../lib/models.js';
 import { demoPeople } from './demo-people.js';
+import { localDate } from '../../shared/time/shop-calendar.js';
 import { appendHistoryMany, type HistoryEntry } from '../modules/registry/service.js';
 import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
 import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
@@ -58,11 +59,6 @@ const HOUR = 3_600_000;
 /** The baritone saxophone on the road left this long before loading and arrives about a day later. */
 const IN_FLIGHT_DEPARTED_HOURS_AGO = 6;
 const DAY = 24 * HOUR;
-
-/** Calendar date ('YYYY-MM-DD') of an instant in a shop's time zone. */
-function localDate(at: Date, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(at);
-}
 
 // ---------------------------------------------------------------------------------------------
 // Static content
