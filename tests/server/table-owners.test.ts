@@ -45,6 +45,12 @@ describe('one owner per table', () => {
     expect(hits.filter((h) => !h.startsWith('server/modules/registry/'))).toEqual([]);
   });
 
+  it('instruments are written only by the registry’s service (the demo seed bulk-loads its registry)', () => {
+    const hits = writesOf([write('Instrument'), sqlWrite('instruments'), /\binstrument\.update\(/]);
+    expect(hits.filter((h) => h.startsWith('server/modules/registry/')).length).toBeGreaterThan(0);
+    expect(hits.filter((h) => !h.startsWith('server/modules/registry/') && !h.startsWith('server/seed/demo.ts:'))).toEqual([]);
+  });
+
   it('job lines, job stages and jobs are written only by the jobs service (the demo seed bulk-loads its backdated jobs)', () => {
     const lines = writesOf([write('JobLineItem'), sqlWrite('job_line_items')]);
     const jobs = writesOf([write('Job'), sqlWrite('jobs'), /\.update\(\s*\{[^}]*\bstage\s*:/]);

@@ -18,7 +18,7 @@ import {
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { appendHistory, appendHistoryMany, customerViewById, visibleCustomerNames } from '../registry/service.js';
+import { appendHistory, appendHistoryMany, customerViewById, setInstrumentWhereabouts, visibleCustomerNames } from '../registry/service.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import {
@@ -536,7 +536,7 @@ export async function applyStageMove(
   );
   if (check.to === 'released') {
     // the instrument has gone back to its owner
-    await Instrument.update({ status: 'in_service' }, { where: { networkId: job.networkId, id: job.instrumentId }, transaction });
+    await setInstrumentWhereabouts({ networkId: job.networkId, id: job.instrumentId }, { status: 'in_service' }, transaction);
   }
   if (check.to === 'assessed') await queueCustomerMail(job, 'estimate', event.id, transaction);
   if (check.to === 'ready') await queueCustomerMail(job, 'ready', event.id, transaction);
@@ -1176,7 +1176,7 @@ export async function openJob(actor: Actor, input: OpenJobInput, transaction?: T
   );
 
   if (instrument.currentShopId !== shop.id || instrument.status !== 'in_shop') {
-    await instrument.update({ currentShopId: shop.id, status: 'in_shop' }, t);
+    await setInstrumentWhereabouts(instrument, { currentShopId: shop.id, status: 'in_shop' }, t.transaction);
   }
 
   await appendHistoryMany(

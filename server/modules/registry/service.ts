@@ -937,3 +937,20 @@ export async function appendHistoryMany(entries: readonly HistoryEntry[], transa
   if (!entries.length) return [];
   return HistoryEvent.bulkCreate([...entries], { transaction });
 }
+
+/**
+ * Where an instrument is and what is happening to it: the registry owns instruments, so a job's intake
+ * and release and a transfer's hand-over and receipt record it through here, in their own transaction.
+ * A loaded row is updated in place, so the caller's copy stays current.
+ */
+export async function setInstrumentWhereabouts(
+  instrument: Instrument | { networkId: string; id: string },
+  change: { status: Instrument['status']; currentShopId?: string },
+  transaction?: Transaction,
+) {
+  if (instrument instanceof Instrument) {
+    await instrument.update(change, { transaction });
+    return;
+  }
+  await Instrument.update(change, { where: { networkId: instrument.networkId, id: instrument.id }, transaction });
+}

@@ -41,7 +41,7 @@ import {
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
 import { receiveTransferredJob, sendJobOnTheRoad } from '../jobs/service.js';
-import { appendHistory } from '../registry/service.js';
+import { appendHistory, setInstrumentWhereabouts } from '../registry/service.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -738,13 +738,13 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         const network = await Network.findByPk(networkId, { transaction });
         const { departedAt, expectedArrivalAt } = departureFor(run, at, t.fromShop, t.toShop, network);
         await t.update({ state: 'in_transit', handedOverAt: at, departedAt, relayRunId: run?.id ?? null, expectedArrivalAt }, { transaction });
-        await instrument.update({ status: 'in_transit' }, { transaction });
+        await setInstrumentWhereabouts(instrument, { status: 'in_transit' }, transaction);
         moveJob = () => sendJobOnTheRoad(job, { transferId, userId: data.actorUserId, at, stepKey: key, fromShopId: t.fromShopId }, transaction);
         break;
       }
       case 'received': {
         await t.update({ state: 'received', receivedByUserId: data.actorUserId, receivedAt: at }, { transaction });
-        await instrument.update({ currentShopId: t.toShopId, status: 'in_shop' }, { transaction });
+        await setInstrumentWhereabouts(instrument, { currentShopId: t.toShopId, status: 'in_shop' }, transaction);
         moveJob = () =>
           receiveTransferredJob(job, { transferId, userId: data.actorUserId, at, stepKey: key, fromShop: t.fromShop, toShop: t.toShop }, transaction);
         break;
