@@ -1,11 +1,15 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import express from 'express';
+import type { Logger } from 'pino';
 import helmet from 'helmet';
 import { config as defaultConfig, type Config } from './config.js';
-import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
+import { sessionMiddleware, sessionLifetime, loadActor, requireActor } from './lib/auth.js';
+import { openApiHandler } from './openapi.js';
 import { sameOriginOnly } from './lib/same-origin.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
+import { logger } from './lib/logger.js';
+import { requestLogger } from './lib/request-log.js';
 import { cachedHealthReport } from './lib/health.js';
 import { rateLimiters } from './lib/rate-limit.js';
 import { authRouter, invitationsRouter, meRouter, peopleRouter } from './modules/members/routes.js';
@@ -27,6 +31,8 @@ export interface AppOptions {
   /** Defaults to `config.rateLimits`; tests build apps with low limits of their own. */
   rateLimits?: Config['rateLimits'];
   healthCacheMs?: number;
+  /** Where request lines go; the app's logger unless given (tests read the lines). */
+  logger?: Logger;
 }
 
 /** Builds the Express app: API, sign-in, and (when built) the client. No listening here; see start.ts. */
@@ -35,6 +41,8 @@ export function buildApp(options: AppOptions = {}) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
+  // first: every answer, refusals included, carries the request's id
+  app.use(requestLogger(options.logger ?? logger));
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -62,6 +70,8 @@ export function buildApp(options: AppOptions = {}) {
   app.use(sessionMiddleware(config));
   app.use(sessionLifetime());
   app.use(loadActor(loadActorRecord));
+  // the API's description, for any signed-in person (server/openapi.ts says why not public)
+  app.get('/api/openapi.json', requireActor, openApiHandler);
 
   // after the actor is known: search, imports and uploads count per person, the rest per address
   const limit = rateLimiters(options.rateLimits ?? config.rateLimits);

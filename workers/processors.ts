@@ -1,10 +1,9 @@
 import type { Job } from 'bullmq';
-import { sendMail } from '../server/lib/mail.js';
 import { appQueue, createWorker, QUEUE_NAME } from '../server/lib/queue.js';
 import { logger } from '../server/lib/logger.js';
 import { applyTransferStep, checkTransferArrival, scheduleOpenArrivalChecks } from '../server/modules/transfers/service.js';
 import { deliverOutbox, deliverOutboxMessage } from '../server/modules/notifications/service.js';
-import type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../server/modules/transfers/queue.js';
+import type { JobName, JobPayloads, Processors } from '../server/lib/queue-jobs.js';
 import { expireUpload, makeThumbnail } from '../server/modules/files/service.js';
 import { sendPickupReminders } from '../server/modules/jobs/service.js';
 
@@ -22,36 +21,31 @@ function crashAfterCommitIfAsked(jobName: string, transferId?: string) {
 
 /**
  * Each queued job names what it does; the processor calls the same service functions the routes use.
- * A job's id is chosen by whoever adds it, so a repeated add of the same step is a no-op.
+ * Names and payload types come from `JobPayloads` (server/lib/queue-jobs.ts), the map producers use
+ * too. A job's id is chosen by whoever adds it, so a repeated add of the same step is a no-op.
  */
-export const processors = {
-  'send-email': async (job: Job<{ to: string; subject: string; text: string; html?: string }>) => {
-    const messageId = await sendMail(job.data);
-    return { messageId };
-  },
-  'transfer-step': async (job: Job<TransferStepData>) =>
+export const processors: Processors = {
+  'transfer-step': async (job) =>
     applyTransferStep(job.data, { afterCommit: () => crashAfterCommitIfAsked('transfer-step', job.data.transferId) }),
-  'transfer-arrival-check': async (job: Job<ArrivalCheckData>) => checkTransferArrival(job.data),
-  'send-outbox': async (job: Job<SendOutboxData>) => deliverOutbox({ dedupePrefix: job.data?.dedupePrefix }),
+  'transfer-arrival-check': async (job) => checkTransferArrival(job.data),
+  'send-outbox': async (job) => deliverOutbox({ dedupePrefix: job.data?.dedupePrefix }),
   // job id `thumbnail-<attachmentId>`: a photo gets one thumbnail however often it is confirmed. Its
   // decode runs one at a time per process under the pixel limit (server/lib/images.ts), whatever the
   // worker's concurrency: other jobs keep flowing while a photo is shrunk.
-  'make-thumbnail': async (job: Job<{ networkId: string; attachmentId: string }>) =>
-    makeThumbnail(job.data.networkId, job.data.attachmentId),
+  'make-thumbnail': async (job) => makeThumbnail(job.data.networkId, job.data.attachmentId),
   // job id `expire-upload-<attachmentId>-<issued>`: delayed; clears an upload nobody confirmed
-  'expire-upload': async (job: Job<{ networkId: string; attachmentId: string }>) =>
-    expireUpload(job.data.networkId, job.data.attachmentId),
+  'expire-upload': async (job) => expireUpload(job.data.networkId, job.data.attachmentId),
   // once a day (scheduler below): reminders for instruments ready and uncollected for 7 days
   'customer-pickup-reminders': async () => sendPickupReminders(),
   // job id `outbox-<outboxId>`: one delivery per outbox row
-  'deliver-outbox': async (job: Job<{ networkId: string; outboxId: string }>) =>
-    deliverOutboxMessage(job.data.networkId, job.data.outboxId),
-} satisfies Record<string, (job: Job<never>) => Promise<unknown>>;
+  'deliver-outbox': async (job) => deliverOutboxMessage(job.data.networkId, job.data.outboxId),
+};
 
-export type JobName = keyof typeof processors;
+export type { JobName };
 
 export async function processJob(job: Job): Promise<unknown> {
-  const run = processors[job.name as JobName] as ((job: Job) => Promise<unknown>) | undefined;
+  // the name comes from the queue's row, so it is checked here; the payload then has its name's type
+  const run = Object.hasOwn(processors, job.name) ? (processors[job.name as JobName] as (job: Job) => Promise<unknown>) : undefined;
   if (!run) throw new Error(`No processor for job "${job.name}"`);
   return run(job);
 }
@@ -83,9 +77,9 @@ export function startWorker(concurrency = 4, tuning: WorkerTuning = {}) {
  * customers whose instrument waits ready and uncollected for 7 days get a reminder.
  */
 export async function scheduleStartupWork() {
-  await appQueue().upsertJobScheduler('outbox-sweep', { every: 10 * 60_000 }, { name: 'send-outbox', data: {} });
+  await appQueue().upsertJobScheduler('outbox-sweep', { every: 10 * 60_000 }, { name: 'send-outbox' satisfies JobName, data: {} satisfies JobPayloads['send-outbox'] });
   // 16:00 UTC is morning across the Americas: the reminder arrives when a shop's day starts. Each wait
   // reminds once (the outbox key holds the ready time), so a sweep that runs twice sends nothing twice.
-  await appQueue().upsertJobScheduler('pickup-reminders', { pattern: '0 16 * * *' }, { name: 'customer-pickup-reminders', data: {} });
+  await appQueue().upsertJobScheduler('pickup-reminders', { pattern: '0 16 * * *' }, { name: 'customer-pickup-reminders' satisfies JobName, data: {} satisfies JobPayloads['customer-pickup-reminders'] });
   await scheduleOpenArrivalChecks();
 }

@@ -46,13 +46,23 @@ export function toAppError(err: unknown): AppError {
   return new AppError(500, 'internal', 'Something went wrong on our side. Please try again.');
 }
 
-/** HTTP error handler: clients get `{ error: { code, message, fields? } }`, never a stack trace. */
+/**
+ * HTTP error handler: clients get `{ error: { code, message, fields?, requestId } }`, never a stack
+ * trace. `requestId` is the request's id (server/lib/request-log.ts), so a person can quote it.
+ */
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const appErr = toAppError(err);
-  if (appErr.status >= 500) logger.error({ err, path: req.path }, 'request failed');
+  const requestId = typeof req.id === 'string' ? req.id : undefined;
+  if (appErr.status >= 500) (req.log ?? logger).error({ err, path: req.path, requestId }, 'request failed');
   if (res.headersSent) return;
   res.status(appErr.status).json({
-    error: { code: appErr.code, message: appErr.message, ...(appErr.fields ? { fields: appErr.fields } : {}), ...(appErr.extra ?? {}) },
+    error: {
+      code: appErr.code,
+      message: appErr.message,
+      ...(appErr.fields ? { fields: appErr.fields } : {}),
+      ...(appErr.extra ?? {}),
+      ...(requestId ? { requestId } : {}),
+    },
   });
 };
 

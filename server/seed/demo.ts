@@ -5,7 +5,6 @@ import { QueryTypes, type CreationAttributes, type Transaction } from 'sequelize
 import { JOB_STAGES, type InstrumentFamily, type JobStage, type NotificationKind, type OwnerKind, type Role } from '../../shared/domain.js';
 import {
   Customer,
-  HistoryEvent,
   Instrument,
   Job,
   JobLineItem,
@@ -28,6 +27,8 @@ import {
   sequelize,
 } from '../lib/models.js';
 import { demoPeople } from './demo-people.js';
+import { localDate } from '../../shared/time/shop-calendar.js';
+import { appendHistoryMany, type HistoryEntry } from '../modules/registry/service.js';
 import { computePadMap, type PadCatalog } from '../../shared/padmap/compute.js';
 import { DEFAULT_PAD_RULES } from '../../shared/padmap/rules.js';
 import type { Hazard } from '../../shared/safety/hazards.js';
@@ -59,11 +60,6 @@ const HOUR = 3_600_000;
 /** The baritone saxophone on the road left this long before loading and arrives about a day later. */
 const IN_FLIGHT_DEPARTED_HOURS_AGO = 6;
 const DAY = 24 * HOUR;
-
-/** Calendar date ('YYYY-MM-DD') of an instant in a shop's time zone. */
-function localDate(at: Date, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(at);
-}
 
 // ---------------------------------------------------------------------------------------------
 // Static content
@@ -828,7 +824,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   await Transfer.bulkCreate(transferRows, t);
 
   // history: every visit's intake, opening and stage changes; transfer steps; a few notes
-  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  const history: HistoryEntry[] = [];
   const label = (s: JobStage) => s.replace(/_/g, ' ');
   for (const j of planned) {
     const iid = instrumentId.get(j.inst.key)!;
@@ -874,7 +870,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     networkId, instrumentId: instrumentId.get('clar8')!, jobId: null, shopId: shopId.SAC, userId: userId.manager, kind: 'note',
     summary: 'Retired from the rental fleet: body cracked beyond economical repair.', data: {}, occurredAt: ago(20),
   });
-  await HistoryEvent.bulkCreate(history, t);
+  await appendHistoryMany(history, transaction);
 
   // Pad maps of earlier repads of Aldmoor Fenlark altos, so the network has sizes to suggest for the
   // next Fenlark Alto and the next repad of each of these serials starts from its map. The nominal cups
@@ -892,7 +888,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
   }
   const round2 = (n: number) => Math.round(n * 100) / 100;
   const padMapRows: Array<CreationAttributes<PadMap>> = [];
-  const padMapEvents: Array<CreationAttributes<HistoryEvent>> = [];
+  const padMapEvents: HistoryEntry[] = [];
   for (const key of ['alto1', 'alto3', 'alto7', 'alto9', 'alto10']) {
     const visit = planned.filter((j) => j.inst.key === key && j.stage === 'released').at(-1);
     if (!visit) continue;
@@ -921,7 +917,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     });
   }
   await PadMap.bulkCreate(padMapRows, t);
-  await HistoryEvent.bulkCreate(padMapEvents, t);
+  await appendHistoryMany(padMapEvents, transaction);
 
   // a few notices so the inbox is not empty, worded as the app words them (server/modules/jobs, stock, transfers)
   const jobAt = (key: string) => planned.find((j) => j.inst.key === key && j.stage !== 'released')!;
@@ -995,7 +991,7 @@ async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: Rus
   const instruments: Array<CreationAttributes<Instrument>> = [];
   const jobs: Array<CreationAttributes<Job>> = [];
   const lines: Array<CreationAttributes<JobLineItem>> = [];
-  const history: Array<CreationAttributes<HistoryEvent>> = [];
+  const history: HistoryEntry[] = [];
   let n = 0;
   RUSH_WEEKS.forEach((count, week) => {
     for (let i = 0; i < count; i++, n++) {
@@ -1035,7 +1031,7 @@ async function addSummerRentalRush(transaction: Transaction, now: Date, ctx: Rus
   await Instrument.bulkCreate(instruments, t);
   await Job.bulkCreate(jobs, t);
   await JobLineItem.bulkCreate(lines, t);
-  await HistoryEvent.bulkCreate(history, t);
+  await appendHistoryMany(history, transaction);
 }
 
 /** Row counts of the demo network, table by table (for the script's report and for checks). */

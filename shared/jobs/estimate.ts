@@ -126,11 +126,6 @@ export function laborHours(lines: readonly EstimateLine[]): number {
   return hundredths / 100;
 }
 
-/** $1,234.50 — US dollars, the demo network's currency. */
-export function formatCents(cents: number, currency = 'USD', locale = 'en-US'): string {
-  return new Intl.NumberFormat(locale, { style: 'currency', currency }).format(cents / 100);
-}
-
 /** 825 → "8.25 %". */
 export function formatBasisPoints(basisPoints: number): string {
   return `${(basisPoints / 100).toFixed(2).replace(/\.?0+$/, '')} %`;

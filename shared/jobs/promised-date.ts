@@ -3,6 +3,7 @@ import { TZDate } from '@date-fns/tz';
 import Holidays from 'date-holidays';
 import type { IsoWeekday } from '../domain.js';
 import { isTimeZone } from '../schemas/shops.js';
+import { localDate } from '../time/shop-calendar.js';
 
 /**
  * Promised dates are counted in the shop's opening days, on the shop's own calendar.
@@ -117,10 +118,8 @@ export function assertCalendar(shop: ShopCalendar) {
   }
 }
 
-/** The calendar date ('YYYY-MM-DD') of an instant in a time zone. */
-export function localDate(instant: Date, timeZone: string): string {
-  return format(new TZDate(instant, timeZone), 'yyyy-MM-dd');
-}
+// the shop's calendar date lives in shared/time/shop-calendar.ts; re-exported for this module's callers
+export { localDate };
 
 /** Local midnight of a 'YYYY-MM-DD' date in a time zone. */
 function localMidnight(date: string, timeZone: string): TZDate {

@@ -50,6 +50,14 @@ export const MOVE_RULES: readonly MoveRule[] = [
 
 export const isHold = (stage: JobStage): stage is HoldStage => (JOB_HOLDS as readonly string[]).includes(stage);
 
+/**
+ * The estimate is frozen once the work is finished: from *ready* on, no line, hour or price changes
+ * (the customer is quoted what passed the final check). The jobs service enforces it for every write of
+ * a job's lines, the pad map's included; screens read it to show the estimate read only.
+ */
+export const ESTIMATE_FROZEN_STAGES: readonly JobStage[] = ['ready', 'released'];
+export const isEstimateFrozen = (stage: JobStage): boolean => ESTIMATE_FROZEN_STAGES.includes(stage);
+
 /** The roles a person holds at one shop; the network-wide owner role counts at every shop. */
 export function rolesAtShop(memberships: ReadonlyArray<{ shopId: string | null; role: Role }>, shopId: string): Role[] {
   return [...new Set(memberships.filter((m) => m.shopId === shopId || m.role === 'owner').map((m) => m.role))];

@@ -1,5 +1,7 @@
 import { estimateTotals } from '../jobs/estimate.js';
 
+// Formatting and parsing of amounts live in shared/money.ts; this file is only the invoice's arithmetic.
+
 /**
  * Invoice arithmetic for the accounting CSV. The rule is the estimate's (shared/jobs/estimate.ts), so
  * an invoice always agrees with the estimate the customer approved: each line rounded once to whole
@@ -34,16 +36,4 @@ export function invoiceTotals(lines: InvoiceLineInput[], taxRateBasisPoints: num
     taxRateBasisPoints,
   );
   return { lineTotalsCents: t.lineCents, subtotalCents: t.subtotalCents, taxCents: t.taxCents, totalCents: t.totalCents };
-}
-
-/** Cents as a plain decimal amount for accounting imports: 123456 → "1234.56", -5 → "-0.05". */
-export function centsToDecimal(cents: number): string {
-  const sign = cents < 0 ? '-' : '';
-  const abs = Math.abs(cents);
-  return `${sign}${Math.floor(abs / 100)}.${String(abs % 100).padStart(2, '0')}`;
-}
-
-/** Basis points as a percentage string: 1025 → "10.25", 1000 → "10", 0 → "0". */
-export function basisPointsToPercent(bp: number): string {
-  return centsToDecimal(bp).replace(/\.00$/, '').replace(/(\.\d)0$/, '$1');
 }

@@ -1,5 +1,6 @@
 import { TZDate } from '@date-fns/tz';
 import { formatDate, formatDateTime } from '../time/format.js';
+import { localDate } from '../time/shop-calendar.js';
 import type { IsoWeekday } from '../domain.js';
 
 /** Wall-clock reading of an instant in a shop's time zone. Months are 1–12; weekdays ISO (Monday = 1). */
@@ -33,11 +34,8 @@ export function atLocal(year: number, month: number, day: number, hour: number, 
   return new Date(new TZDate(year, month - 1, day, hour, minute, 0, 0, timeZone).getTime());
 }
 
-/** 'YYYY-MM-DD' of an instant in a time zone. */
-export function localDate(instant: Date, timeZone: string): string {
-  const p = localParts(instant, timeZone);
-  return `${p.year}-${String(p.month).padStart(2, '0')}-${String(p.day).padStart(2, '0')}`;
-}
+// 'YYYY-MM-DD' of an instant in a time zone: shared/time/shop-calendar.ts, re-exported for routing's callers
+export { localDate };
 
 /** "Tue 11 Jun 2024, 07:30 PDT" (or the date alone) in the shop's zone: the one format of shared/time/format.ts. */
 export function formatLocal(instant: Date, timeZone: string, withTime = true): string {

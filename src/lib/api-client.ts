@@ -11,14 +11,24 @@ export class ApiError extends Error {
   readonly fieldErrors: FieldErrors;
   /** Anything else the server put in the error object (for example the e-mail on `no_access`). */
   readonly details: Record<string, unknown>;
+  /** The request's id (X-Request-Id), for a person to quote when asking for help; null when none came back. */
+  readonly requestId: string | null;
 
-  constructor(init: { status: number; code: string; message: string; fieldErrors?: FieldErrors; details?: Record<string, unknown> }) {
+  constructor(init: {
+    status: number;
+    code: string;
+    message: string;
+    fieldErrors?: FieldErrors;
+    details?: Record<string, unknown>;
+    requestId?: string | null;
+  }) {
     super(init.message);
     this.name = 'ApiError';
     this.status = init.status;
     this.code = init.code;
     this.fieldErrors = init.fieldErrors ?? {};
     this.details = init.details ?? {};
+    this.requestId = init.requestId ?? null;
   }
 }
 
@@ -62,7 +72,7 @@ export async function apiRequest<T>(path: string, options: RequestOptions = {}):
   }
 
   const payload = await readJson(response);
-  if (!response.ok) throw toApiError(response.status, payload);
+  if (!response.ok) throw toApiError(response.status, payload, response.headers?.get('X-Request-Id') ?? null);
   return payload as T;
 }
 
@@ -78,18 +88,19 @@ async function readJson(response: Response): Promise<unknown> {
   }
 }
 
-function toApiError(status: number, payload: unknown): ApiError {
+function toApiError(status: number, payload: unknown, headerRequestId: string | null): ApiError {
   const error = isRecord(payload) && isRecord(payload.error) ? payload.error : undefined;
   if (!error) {
-    return new ApiError({ status, code: fallbackCode(status), message: fallbackMessage(status) });
+    return new ApiError({ status, code: fallbackCode(status), message: fallbackMessage(status), requestId: headerRequestId });
   }
-  const { code, message, fields, ...details } = error;
+  const { code, message, fields, requestId, ...details } = error;
   return new ApiError({
     status,
     code: typeof code === 'string' ? code : fallbackCode(status),
     message: typeof message === 'string' ? message : fallbackMessage(status),
     fieldErrors: isRecord(fields) ? stringEntries(fields) : undefined,
     details,
+    requestId: typeof requestId === 'string' ? requestId : headerRequestId,
   });
 }
 

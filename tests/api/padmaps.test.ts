@@ -205,6 +205,27 @@ describe('pad maps API', () => {
       const res = await request(app).put(`/api/jobs/${released.id}/pad-map`).set('Cookie', cookies.techA).send(firstMap).expect(409);
       expect(res.body.error.message).toMatch(/released/);
     });
+
+    it('a job that is ready keeps its frozen estimate: saving a map there is refused and changes nothing', async () => {
+      const { job: ready, instrument: readyInstrument } = await makeInstrumentWithJob(networkId, shopA.id, owner.id, { stage: 'ready', family: 'alto_saxophone' });
+      const padLine = await JobLineItem.create({
+        networkId, jobId: ready.id, kind: 'part', partId: catalog.pad('glued', 10).id, description: 'Glued pad 10 mm (palm D)', quantity: 1, unitPriceCents: 450, position: 0,
+      });
+      const versionBefore = (await Job.findByPk(ready.id))!.estimateVersion;
+
+      const res = await request(app).put(`/api/jobs/${ready.id}/pad-map`).set('Cookie', cookies.techA).send(firstMap).expect(409);
+      expect(res.body.error.message).toMatch(/estimate can no longer change/);
+
+      const lines = await JobLineItem.findAll({ where: { networkId, jobId: ready.id } });
+      expect(lines.map((l) => [l.id, l.description, l.quantity, l.unitPriceCents])).toEqual([[padLine.id, 'Glued pad 10 mm (palm D)', 1, 450]]);
+      expect((await Job.findByPk(ready.id))!.estimateVersion).toBe(versionBefore);
+      expect(await PadMap.count({ where: { networkId, jobId: ready.id } })).toBe(0);
+      expect(await HistoryEvent.count({ where: { networkId, instrumentId: readyInstrument.id, kind: ['pad_map_saved', 'estimate_changed'] } })).toBe(0);
+      expect(await StockReservation.count({ where: { networkId, jobId: ready.id } })).toBe(0);
+
+      const workspace = await request(app).get(`/api/jobs/${ready.id}/pad-map`).set('Cookie', cookies.techA).expect(200);
+      expect(workspace.body.can.edit).toBe(false);
+    });
   });
 
   describe('memory across the network', () => {

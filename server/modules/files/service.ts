@@ -3,12 +3,13 @@ import { subject } from '@casl/ability';
 import { GetObjectCommand } from '@aws-sdk/client-s3';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { Op } from 'sequelize';
-import { Attachment, HistoryEvent, Instrument, Job, User, sequelize } from '../../lib/models.js';
+import { Attachment, Instrument, Job, User, sequelize } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
+import { appendHistory } from '../registry/service.js';
 import { AppError, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { logger } from '../../lib/logger.js';
-import { appQueue } from '../../lib/queue.js';
+import { enqueue } from '../../lib/queue-jobs.js';
 import { isPixelLimitError, oneImageAtATime, openImage } from '../../lib/images.js';
 import {
   bucket,
@@ -168,7 +169,7 @@ export const PENDING_UPLOAD_LIFETIME_MS = (UPLOAD_URL_SECONDS + 15 * 60) * 1000;
 
 async function queueUploadExpiry(a: Attachment) {
   try {
-    await appQueue().add('expire-upload', { networkId: a.networkId, attachmentId: a.id }, {
+    await enqueue('expire-upload', { networkId: a.networkId, attachmentId: a.id }, {
       // one check per issued link: a renewed link gets its own, later check
       jobId: `expire-upload-${a.id}-${new Date(a.updatedAt).getTime()}`,
       delay: PENDING_UPLOAD_LIFETIME_MS,
@@ -329,7 +330,7 @@ export async function confirmUpload(actor: Actor, attachmentId: string): Promise
     );
     if (count === 0) return false;
     const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[(a.tag ?? 'detail') as PhotoTag].toLowerCase()} photo` : 'document';
-    await HistoryEvent.create(
+    await appendHistory(
       {
         networkId: a.networkId,
         instrumentId: a.instrumentId,
@@ -340,7 +341,7 @@ export async function confirmUpload(actor: Actor, attachmentId: string): Promise
         summary: `${job ? `Job ${job.number}: ` : ''}${what} added${a.caption ? ` — ${a.caption}` : ''}`,
         data: { attachmentId: a.id, tag: a.tag ?? null },
       },
-      { transaction },
+      transaction,
     );
     return true;
   });
@@ -353,7 +354,7 @@ export const thumbnailJobId = (attachmentId: string) => `thumbnail-${attachmentI
 
 async function queueThumbnail(networkId: string, attachmentId: string) {
   try {
-    await appQueue().add('make-thumbnail', { networkId, attachmentId }, {
+    await enqueue('make-thumbnail', { networkId, attachmentId }, {
       jobId: thumbnailJobId(attachmentId),
       attempts: 4,
       backoff: { type: 'exponential', delay: 1000 },
@@ -465,7 +466,7 @@ export async function deleteAttachment(actor: Actor, attachmentId: string): Prom
     await a.destroy({ transaction });
     if (a.status === 'stored') {
       const job = a.jobId ? await Job.findOne({ where: { networkId: actor.networkId, id: a.jobId }, transaction }) : null;
-      await HistoryEvent.create(
+      await appendHistory(
         {
           networkId: a.networkId,
           instrumentId: a.instrumentId,
@@ -476,7 +477,7 @@ export async function deleteAttachment(actor: Actor, attachmentId: string): Prom
           summary: `${job ? `Job ${job.number}: ` : ''}${a.kind} removed${a.caption ? ` — ${a.caption}` : ''}`,
           data: { attachmentId: a.id },
         },
-        { transaction },
+        transaction,
       );
     }
   });

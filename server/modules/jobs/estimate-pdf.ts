@@ -1,5 +1,6 @@
 import PDFDocument from 'pdfkit';
-import { formatBasisPoints, formatCents } from '../../../shared/jobs/estimate.js';
+import { formatBasisPoints } from '../../../shared/jobs/estimate.js';
+import { formatCents } from '../../../shared/money.js';
 import { formatDate } from '../../../shared/time/format.js';
 import { APPROVAL_MEANING } from '../../../shared/customers/public-page.js';
 

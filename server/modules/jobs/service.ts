@@ -20,24 +20,25 @@ import {
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { appendHistory, customerViewById, visibleCustomerNames } from '../registry/service.js';
+import { appendHistory, appendHistoryMany, customerViewById, setInstrumentWhereabouts, visibleCustomerNames } from '../registry/service.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import {
   estimateTotals,
   formatBasisPoints,
-  formatCents,
   laborHours,
   lineTotalCents,
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
+import { formatCents } from '../../../shared/money.js';
 import { closedDaysOf } from '../networks/service.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {
   allowedMoves,
   checkMove,
   estimateNeedsReapproval,
+  isEstimateFrozen,
   mayRecordApproval,
   rolesAtShop,
   type JobState,
@@ -82,8 +83,6 @@ import { queueCustomerNotice, queueEstimateRequest } from './customer-mail.js';
  */
 
 const OPEN_EXCEPT_DONE: JobStage[] = ['ready', 'released'];
-/** The estimate is frozen once the work is finished. */
-const ESTIMATE_FROZEN: JobStage[] = ['ready', 'released'];
 
 const iso = (d: Date | string | null | undefined) => (d == null ? null : new Date(d).toISOString());
 const person = (u: { id: string; name: string } | null | undefined): PersonRef | null => (u ? { id: u.id, name: u.name } : null);
@@ -127,10 +126,7 @@ export async function recordHistory(
   data: Record<string, unknown>,
   transaction?: Transaction,
 ) {
-  return HistoryEvent.create(
-    { networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: job.shopId, userId, kind, summary, data },
-    { transaction },
-  );
+  return appendHistory({ networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: job.shopId, userId, kind, summary, data }, transaction);
 }
 
 /** People who may be assigned work at a shop: its technicians. */
@@ -526,7 +522,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       update: canUpdate,
       moveStage: canMove && moves.length > 0,
       recordApproval: canUpdate && mayRecordApproval(roles) && !['intake', 'released'].includes(job.stage),
-      editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !ESTIMATE_FROZEN.includes(job.stage),
+      editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !isEstimateFrozen(job.stage),
       logTime: canUpdate,
       addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
       customerLink: canUpdate && mayRecordApproval(roles) && job.stage !== 'released',
@@ -645,7 +641,7 @@ export async function applyStageMove(
   );
   if (check.to === 'released') {
     // the instrument has gone back to its owner
-    await Instrument.update({ status: 'in_service' }, { where: { networkId: job.networkId, id: job.instrumentId }, transaction });
+    await setInstrumentWhereabouts({ networkId: job.networkId, id: job.instrumentId }, { status: 'in_service' }, transaction);
   }
   // the estimate goes to the customer as an approval request (with its link and PDF); ready is a notice
   if (check.to === 'assessed') await queueEstimateRequest(job, { key: event.id, userId: by.userId }, transaction);
@@ -700,17 +696,64 @@ export async function moveJobStage(actor: Actor, jobId: string, input: z.infer<t
   return jobDetail(actor, jobId);
 }
 
-/** For the transfer steps: put a job on the road, or resume it on arrival. */
-export async function moveJobForTransfer(
-  networkId: string,
-  jobId: string,
-  to: JobStage,
-  userId: string | null,
+/** Stage names inside a transfer's sentences ("approved → in transit"). */
+const lowerStage = (s: JobStage) => JOB_STAGE_LABELS[s].toLowerCase();
+
+/** What a transfer step tells the jobs service when it moves a job. */
+export interface TransferMove {
+  transferId: string;
+  userId: string | null;
+  /** When the step happened (the hand-over, the receipt): the history entry's time. */
+  at: Date;
+  /** The step's key; the job's history entry carries `<key>:stage`. */
+  stepKey: string;
+}
+
+/**
+ * A transfer's hand-over puts the job on the road. A job waiting for parts (or already on the road)
+ * keeps the stage it will resume; any other stage becomes that stage. No customer e-mail or notice:
+ * the transfer step sends its own. The caller holds the job's row lock.
+ */
+export async function sendJobOnTheRoad(job: Job, move: TransferMove & { fromShopId: string }, transaction: Transaction) {
+  const fromStage = job.stage;
+  const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
+  await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
+  await appendHistory(
+    {
+      networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: move.fromShopId, userId: move.userId,
+      kind: 'stage_changed', summary: `Job ${job.number}: ${lowerStage(fromStage as JobStage)} → ${lowerStage('in_transit')}`,
+      data: { from: fromStage, to: 'in_transit', transferId: move.transferId }, occurredAt: move.at, idempotencyKey: `${move.stepKey}:stage`,
+    },
+    transaction,
+  );
+}
+
+/**
+ * A transfer's receipt: the job belongs to the receiving shop from now on, resumes the stage it left
+ * in (unassigned: the new shop picks its technician) and its estimate is taxed at the new shop's rate,
+ * which leaves an estimate entry when the total changes. The caller holds the job's row lock.
+ */
+export async function receiveTransferredJob(
+  job: Job,
+  move: TransferMove & { fromShop: Pick<Shop, 'taxRateBasisPoints'>; toShop: Pick<Shop, 'id' | 'name' | 'taxRateBasisPoints'> },
   transaction: Transaction,
-): Promise<MoveResult> {
-  const job = await Job.findOne({ where: { networkId, id: jobId }, transaction, lock: transaction.LOCK.UPDATE });
-  if (!job) throw notFound('That job');
-  return applyStageMove(job, to, { userId, roles: [], via: 'transfer' }, transaction);
+) {
+  const resume: JobStage = job.stageBeforeHold ?? (job.stage === 'in_transit' ? 'approved' : job.stage);
+  // the estimate is taxed where the work is done: a shop with another rate changes its total
+  const estimateBefore = await currentEstimate(job, transaction, move.fromShop.taxRateBasisPoints);
+  await job.update({ shopId: move.toShop.id, stage: resume, stageBeforeHold: null, assignedUserId: null }, { transaction });
+  await recordEstimateChange(
+    job, move.userId, `re-taxed at ${move.toShop.name}'s rate after the transfer`, estimateBefore, transaction,
+    await currentEstimate(job, transaction, move.toShop.taxRateBasisPoints),
+  );
+  await appendHistory(
+    {
+      networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: move.toShop.id, userId: move.userId,
+      kind: 'stage_changed', summary: `Job ${job.number}: ${lowerStage('in_transit')} → ${lowerStage(resume)} at ${move.toShop.name}`,
+      data: { from: 'in_transit', to: resume, transferId: move.transferId, shopId: move.toShop.id }, occurredAt: move.at, idempotencyKey: `${move.stepKey}:stage`,
+    },
+    transaction,
+  );
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -760,8 +803,56 @@ export async function sendPickupReminders(now = new Date()): Promise<{ reminded:
 async function editableJob(actor: Actor, jobId: string, transaction: Transaction) {
   const job = await readableJob(actor, jobId, { transaction, lock: true });
   assertCan(actor.ability, 'edit_estimate', 'Job', asRow(job), 'You cannot change estimates at this shop.');
-  if (ESTIMATE_FROZEN.includes(job.stage)) throw conflict('The work is finished; the estimate can no longer change.');
+  assertEstimateOpen(job);
   return job;
+}
+
+/**
+ * The one place the estimate's freeze is enforced (the rule itself is `isEstimateFrozen` in
+ * shared/jobs/stage-machine.ts): every write of a job's lines goes through this module and calls it.
+ */
+export function assertEstimateOpen(job: Pick<Job, 'stage'>) {
+  if (isEstimateFrozen(job.stage)) throw conflict('The work is finished; the estimate can no longer change.');
+}
+
+export interface PartLineInput {
+  partId: string;
+  description: string;
+  quantity: number;
+  unitPriceCents: number;
+}
+
+/**
+ * Replaces the job's part lines whose part is in `scope` (say, every pad of the catalog) by `lines`,
+ * appended after the job's other lines; labor and parts outside the scope stay. The caller holds the
+ * job's row lock in `transaction` and has checked who may write; the freeze is checked here. Leaves the
+ * estimate's history entry (with `what`) when the totals changed.
+ */
+export async function replacePartLines(
+  job: Job,
+  scope: ReadonlySet<string>,
+  lines: readonly PartLineInput[],
+  change: { userId: string | null; what: string },
+  transaction: Transaction,
+) {
+  assertEstimateOpen(job);
+  const before = await currentEstimate(job, transaction);
+  await JobLineItem.destroy({ where: { networkId: job.networkId, jobId: job.id, kind: 'part', partId: { [Op.in]: [...scope] } }, transaction });
+  const last = (await JobLineItem.max<number, JobLineItem>('position', { where: { networkId: job.networkId, jobId: job.id }, transaction })) ?? -1;
+  await JobLineItem.bulkCreate(
+    lines.map((line, i) => ({
+      networkId: job.networkId,
+      jobId: job.id,
+      kind: 'part' as const,
+      partId: line.partId,
+      description: line.description,
+      quantity: line.quantity,
+      unitPriceCents: line.unitPriceCents,
+      position: Number(last) + 1 + i,
+    })),
+    { transaction },
+  );
+  return recordEstimateChange(job, change.userId, change.what, before, transaction);
 }
 
 export function jobState(job: Job, needsReapproval: boolean): JobState {
@@ -1197,10 +1288,10 @@ export async function openJob(actor: Actor, input: OpenJobInput, transaction?: T
   );
 
   if (instrument.currentShopId !== shop.id || instrument.status !== 'in_shop') {
-    await instrument.update({ currentShopId: shop.id, status: 'in_shop' }, t);
+    await setInstrumentWhereabouts(instrument, { currentShopId: shop.id, status: 'in_shop' }, t.transaction);
   }
 
-  await HistoryEvent.bulkCreate(
+  await appendHistoryMany(
     [
       {
         networkId, instrumentId: instrument.id, jobId: job.id, shopId: shop.id, userId: actor.id, kind: 'intake',
@@ -1218,7 +1309,7 @@ export async function openJob(actor: Actor, input: OpenJobInput, transaction?: T
         idempotencyKey: `job:${job.id}:opened`,
       },
     ],
-    t,
+    t.transaction,
   );
   return job;
 }

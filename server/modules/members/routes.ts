@@ -42,7 +42,7 @@ const INVITATION_RETURN = /^\/invitations\/[A-Za-z0-9_-]+\/accept$/;
 const uuid = z.uuid();
 
 /** Only same-site paths may follow sign-in, never another origin. */
-const returnToSchema = z
+export const returnToSchema = z
   .string()
   .regex(/^\/(?!\/)[^\s\\]*$/)
   .catch('/');

@@ -8,12 +8,12 @@ import { getPreferences, listInbox, markAllRead, markRead, setPreferences, unrea
 export const notificationsRouter = Router();
 
 const idParam = z.object({ id: z.string().uuid() });
-const listQuery = z.object({
+export const listQuery = z.object({
   limit: z.coerce.number().int().min(1).max(200).optional(),
   unread: z.enum(['true', 'false']).optional(),
 });
-const readAllBody = z.object({ upTo: z.coerce.date().optional() }).strict();
-const preferencesBody = z
+export const readAllBody = z.object({ upTo: z.coerce.date().optional() }).strict();
+export const preferencesBody = z
   .object({
     preferences: z
       .array(z.object({ kind: z.enum(NOTIFICATION_KINDS), email: z.boolean() }).strict())

@@ -4,7 +4,7 @@ import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
 import { mailAttachments, transport, type MailAttachment, type OutgoingMail } from '../../lib/mail.js';
 import { logger } from '../../lib/logger.js';
-import { appQueue } from '../../lib/queue.js';
+import { enqueue } from '../../lib/queue-jobs.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { notFound } from '../../lib/errors.js';
 import type { Actor } from '../../lib/auth.js';
@@ -42,18 +42,16 @@ export interface NoticeInput {
 const sendJobId = (dedupeKey: string) => `notice-${createHash('sha1').update(dedupeKey).digest('hex')}`;
 
 function sendAfterCommit(dedupeKey: string, transaction?: Transaction) {
-  const enqueue = () => {
-    appQueue()
-      .add('send-outbox', { dedupePrefix: `${dedupeKey}:` }, {
-        jobId: sendJobId(dedupeKey),
-        attempts: 6,
-        backoff: { type: 'exponential', delay: 2000 },
-        removeOnComplete: 1000,
-      })
-      .catch((err: Error) => logger.warn({ err: err.message, dedupeKey }, 'could not enqueue notice e-mails; the outbox sweep sends them'));
+  const add = () => {
+    enqueue('send-outbox', { dedupePrefix: `${dedupeKey}:` }, {
+      jobId: sendJobId(dedupeKey),
+      attempts: 6,
+      backoff: { type: 'exponential', delay: 2000 },
+      removeOnComplete: 1000,
+    }).catch((err: Error) => logger.warn({ err: err.message, dedupeKey }, 'could not enqueue notice e-mails; the outbox sweep sends them'));
   };
-  if (transaction) transaction.afterCommit(enqueue);
-  else enqueue();
+  if (transaction) transaction.afterCommit(add);
+  else add();
 }
 
 export interface OutboxPayload {
@@ -220,14 +218,12 @@ export async function queueEmail(mail: QueuedEmail, transaction: Transaction): P
   });
   if (!created) return row.id;
   transaction.afterCommit(() => {
-    appQueue()
-      .add('deliver-outbox', { networkId, outboxId: row.id }, {
-        jobId: deliverOutboxJobId(row.id),
-        attempts: 6,
-        backoff: { type: 'exponential', delay: 2000 },
-        removeOnComplete: 1000,
-      })
-      .catch((err: Error) => logger.warn({ err: err.message, outboxId: row.id }, 'could not enqueue an e-mail; it stays in the outbox'));
+    enqueue('deliver-outbox', { networkId, outboxId: row.id }, {
+      jobId: deliverOutboxJobId(row.id),
+      attempts: 6,
+      backoff: { type: 'exponential', delay: 2000 },
+      removeOnComplete: 1000,
+    }).catch((err: Error) => logger.warn({ err: err.message, outboxId: row.id }, 'could not enqueue an e-mail; it stays in the outbox'));
   });
   return row.id;
 }

@@ -15,7 +15,7 @@ function idParam(value: unknown, what: string): string {
   return parsed.data;
 }
 
-const suggestionsQuery = z.object({
+export const suggestionsQuery = z.object({
   family: z.enum(INSTRUMENT_FAMILIES),
   maker: z.string().trim().min(1).max(120),
   model: z.string().trim().max(120).optional(),

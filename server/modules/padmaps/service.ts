@@ -2,7 +2,7 @@ import { subject } from '@casl/ability';
 import { Op, fn, col, where as sqlWhere, type Transaction, type WhereOptions } from 'sequelize';
 import type { z } from 'zod';
 import { sequelize } from '../../lib/db.js';
-import { AuditLog, HistoryEvent, Instrument, Job, JobLineItem, Network, PadMap, ServiceCatalogItem, Shop, User } from '../../lib/models.js';
+import { AuditLog, Instrument, Job, Network, PadMap, ServiceCatalogItem, Shop, User } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { badRequest, conflict, notFound } from '../../lib/errors.js';
@@ -11,10 +11,12 @@ import { normalizeMaker } from '../../../shared/serial.js';
 import { computePadMap, partsListOf, type KeyResult, type PadCatalog } from '../../../shared/padmap/compute.js';
 import { readEntries, type savePadMapSchema, type StoredEntry } from '../../../shared/padmap/entries.js';
 import { padKeysFor } from '../../../shared/padmap/keys.js';
+import { isEstimateFrozen } from '../../../shared/jobs/stage-machine.js';
 import { padRulesSchema, resolvePadRules, type PadRules } from '../../../shared/padmap/rules.js';
 import { suggestFromMaps, type EarlierMap, type Suggestions } from '../../../shared/padmap/suggest.js';
 import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/service.js';
-import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
+import { assertEstimateOpen, replacePartLines } from '../jobs/service.js';
+import { appendHistory } from '../registry/service.js';
 
 /**
  * Pad maps: the per-key measurements of a repad and the pads chosen for them. A map is kept with the
@@ -226,7 +228,7 @@ export async function padMapWorkspace(actor: Actor, jobId: string) {
     parts,
     summary: padMap ? summaryOf(padMap.results, catalog) : null,
     can: {
-      edit: job.stage !== 'released' && actor.ability.can('create', subject('PadMap', { shopId: job.shopId }) as never),
+      edit: !isEstimateFrozen(job.stage) && actor.ability.can('create', subject('PadMap', { shopId: job.shopId }) as never),
       requestParts: actor.ability.can('request', subject('Stock', { shopId: job.shopId }) as never),
     },
   };
@@ -256,6 +258,8 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
     // one save per job at a time: the second waits and then replaces the first's lines and reservations
     const job = await loadJob(actor, jobId, transaction, true);
     if (job.stage === 'released') throw conflict('This job has been released; open a new job to repad the instrument again.');
+    // before anything is written: the map becomes the job's pad lines, which the jobs service freezes at ready
+    assertEstimateOpen(job);
     assertCan(actor.ability, 'create', 'PadMap', { shopId: job.shopId }, 'Only technicians and managers of the job’s shop can record its pad map.');
 
     const network = await networkOf(actor, transaction);
@@ -281,28 +285,17 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
       : await PadMap.create({ networkId: actor.networkId, instrumentId: instrument.id, jobId: job.id, createdByUserId: actor.id, ...values }, { transaction });
 
     // the job's pad lines are replaced as a whole; labor and other parts on the job stay as they are
-    const estimateBefore = await currentEstimate(job, transaction);
     const padPartIds = new Set([...catalog.self_leveling, ...catalog.glued].map((p) => p.partId).filter((id): id is string => !!id));
-    await JobLineItem.destroy({ where: { networkId: actor.networkId, jobId: job.id, kind: 'part', partId: { [Op.in]: [...padPartIds] } }, transaction });
-    const lastPosition = (await JobLineItem.max<number, JobLineItem>('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) ?? -1;
     const names = new Map(padKeysFor(instrument.family).map((k) => [k.id, k.name]));
     const keyLabel = (id: string) => names.get(id) ?? entries.find((e) => e.keyId === id)?.keyName ?? id;
     const lines = result.parts.filter((p) => p.partId);
-    await JobLineItem.bulkCreate(
-      lines.map((p, i) => ({
-        networkId: actor.networkId,
-        jobId: job.id,
-        kind: 'part' as const,
-        partId: p.partId!,
-        description: `${p.name} (${p.keyIds.map(keyLabel).join(', ')})`,
-        quantity: p.quantity,
-        unitPriceCents: p.unitPriceCents ?? 0,
-        position: Number(lastPosition) + 1 + i,
-      })),
-      { transaction },
+    await replacePartLines(
+      job,
+      padPartIds,
+      lines.map((p) => ({ partId: p.partId!, description: `${p.name} (${p.keyIds.map(keyLabel).join(', ')})`, quantity: p.quantity, unitPriceCents: p.unitPriceCents ?? 0 })),
+      { userId: actor.id, what: 'pad lines replaced by the pad map' },
+      transaction,
     );
-
-    await recordEstimateChange(job, actor.id, 'pad lines replaced by the pad map', estimateBefore, transaction);
 
     const reservation = await syncJobReservations({
       networkId: actor.networkId,
@@ -317,7 +310,7 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
     const shop = await Shop.findOne({ where: { networkId: actor.networkId, id: job.shopId }, attributes: ['name'], transaction });
     const selfLeveling = result.keys.filter((k) => k.padDiameterMm != null && k.padKind === 'self_leveling').length;
     const glued = result.counts.padsChosen - selfLeveling;
-    await HistoryEvent.create(
+    await appendHistory(
       {
         networkId: actor.networkId,
         instrumentId: instrument.id,
@@ -335,7 +328,7 @@ export async function savePadMap(actor: Actor, jobId: string, input: z.output<ty
           serviceId: service?.id ?? null,
         },
       },
-      { transaction },
+      transaction,
     );
     return { padMapId: map.id, created: !existing, labor: result.labor, reservation };
   });

@@ -713,13 +713,13 @@ export async function intake(actor: Actor, input: z.output<typeof intakeSchema>)
         },
         t,
       );
-      await HistoryEvent.create(
+      await appendHistory(
         {
-          networkId, instrumentId: instrument.id, shopId: shop.id, userId: actor.id, kind: 'registered',
+          networkId, instrumentId: instrument.id, jobId: null, shopId: shop.id, userId: actor.id, kind: 'registered',
           summary: `Registered at ${shop.name}`, data: { serial: instrument.serial, maker: instrument.maker },
           idempotencyKey: `registered:${instrument.id}`,
         },
-        t,
+        t.transaction,
       );
     }
 
@@ -886,12 +886,12 @@ async function importRow(ctx: ImportContext, row: ImportRow, attempt = 0): Promi
         );
         const id = rows[0]?.id;
         if (!id) return null;
-        await HistoryEvent.create(
+        await appendHistory(
           {
-            networkId, instrumentId: id, shopId: shop.id, userId: actor.id, kind: 'registered',
+            networkId, instrumentId: id, jobId: null, shopId: shop.id, userId: actor.id, kind: 'registered',
             summary: `Registered at ${shop.name} from a fleet import`, data: { row: row.row }, idempotencyKey: `registered:${id}`,
           },
-          { transaction },
+          transaction,
         );
         return id;
       });
@@ -914,13 +914,13 @@ async function importRow(ctx: ImportContext, row: ImportRow, attempt = 0): Promi
       if (!fields.length) return { row: row.row, outcome: 'unchanged', instrumentId: locked.id };
       await locked.update(Object.fromEntries(fields.map((f) => [f, changes[f]!.to])) as Partial<Instrument>, { transaction });
       const labels = IMPORT_CHANGE_FIELDS.filter(([f]) => fields.includes(f)).map(([, label]) => label);
-      await HistoryEvent.create(
+      await appendHistory(
         {
-          networkId, instrumentId: locked.id, shopId: shop.id, userId: actor.id, kind: 'details_changed',
+          networkId, instrumentId: locked.id, jobId: null, shopId: shop.id, userId: actor.id, kind: 'details_changed',
           summary: `Details changed by a fleet import at ${shop.name}: ${labels.join(', ')}`,
           data: { source: 'fleet_import', row: row.row, changes },
         },
-        { transaction },
+        transaction,
       );
       return { row: row.row, outcome: 'updated', instrumentId: locked.id, changed: fields };
     });
@@ -934,22 +934,50 @@ async function importRow(ctx: ImportContext, row: ImportRow, attempt = 0): Promi
 }
 
 
+/** One entry on an instrument's work history, as modules hand it to the registry. */
+export interface HistoryEntry {
+  networkId: string;
+  instrumentId: string;
+  jobId: string | null;
+  shopId: string | null;
+  userId: string | null;
+  kind: string;
+  summary: string;
+  data: Record<string, unknown>;
+  /** When it happened, when that is not now (a transfer step records the time of the step). */
+  occurredAt?: Date;
+  /** A key that makes the entry once only (a retried queue job finds it and stops). */
+  idempotencyKey?: string | null;
+}
+
 /**
- * One entry on an instrument's work history, for changes other modules make to a job (an estimate's
- * lines, tax or total). The registry owns the history; other modules write to it through here.
+ * The one way to write an instrument's work history. The registry owns the history; every module
+ * (jobs, pad maps, files, transfers, the demo seed) writes to it through here, inside its own
+ * transaction. tests/server/table-owners.test.ts keeps it that way.
  */
-export async function appendHistory(
-  entry: {
-    networkId: string;
-    instrumentId: string;
-    jobId: string | null;
-    shopId: string | null;
-    userId: string | null;
-    kind: string;
-    summary: string;
-    data: Record<string, unknown>;
-  },
+export async function appendHistory(entry: HistoryEntry, transaction?: Transaction) {
+  return HistoryEvent.create(entry, { transaction });
+}
+
+/** Several entries in one statement (the demo seed, a fleet import). */
+export async function appendHistoryMany(entries: readonly HistoryEntry[], transaction?: Transaction) {
+  if (!entries.length) return [];
+  return HistoryEvent.bulkCreate([...entries], { transaction });
+}
+
+/**
+ * Where an instrument is and what is happening to it: the registry owns instruments, so a job's intake
+ * and release and a transfer's hand-over and receipt record it through here, in their own transaction.
+ * A loaded row is updated in place, so the caller's copy stays current.
+ */
+export async function setInstrumentWhereabouts(
+  instrument: Instrument | { networkId: string; id: string },
+  change: { status: Instrument['status']; currentShopId?: string },
   transaction?: Transaction,
 ) {
-  return HistoryEvent.create(entry, { transaction });
+  if (instrument instanceof Instrument) {
+    await instrument.update(change, { transaction });
+    return;
+  }
+  await Instrument.update(change, { where: { networkId: instrument.networkId, id: instrument.id }, transaction });
 }

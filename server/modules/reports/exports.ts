@@ -1,6 +1,6 @@
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS } from '../../../shared/domain.js';
 import { toCsv, type CsvCell } from '../../../shared/reports/csv.js';
-import { basisPointsToPercent, centsToDecimal } from '../../../shared/reports/money.js';
+import { basisPointsToPercent, centsToDecimal } from '../../../shared/money.js';
 import type {
   BenchLoadRow,
   ListAnswer,

@@ -22,21 +22,21 @@ function idParam(value: unknown, what: string): string {
   return parsed.data;
 }
 
-const stockQuery = z.object({
+export const stockQuery = z.object({
   shopId: z.uuid({ error: 'Choose a shop.' }),
   kind: z.enum(['pad', 'other']).optional(),
   attention: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
   q: z.string().trim().max(80).optional(),
 });
 
-const adjustBody = z
+export const adjustBody = z
   .object({
     onHand: z.number().int('Count whole parts.').min(0, 'Cannot be below zero.').max(100_000).optional(),
     reorderPoint: z.number().int('Count whole parts.').min(0, 'Cannot be below zero.').max(100_000).optional(),
   })
   .refine((b) => b.onHand != null || b.reorderPoint != null, 'Give a count on hand or a reorder point.');
 
-const requestBody = z.object({
+export const requestBody = z.object({
   partId: z.uuid(),
   fromShopId: z.uuid({ error: 'Choose the shop that sends the parts.' }),
   toShopId: z.uuid(),

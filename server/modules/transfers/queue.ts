@@ -1,6 +1,7 @@
 import type { JobsOptions } from 'bullmq';
 import { appQueue } from '../../lib/queue.js';
 import type { TransferState } from '../../../shared/domain.js';
+import { enqueue, type ArrivalCheckData, type JobName, type JobPayloads, type TransferStepData } from '../../lib/queue-jobs.js';
 
 /**
  * Queue names and ids of the transfer jobs. Every id is deterministic, so adding the same step twice
@@ -8,37 +9,11 @@ import type { TransferState } from '../../../shared/domain.js';
  * idempotent on top of that.
  */
 
-export const TRANSFER_STEP_JOB = 'transfer-step';
-export const TRANSFER_ARRIVAL_CHECK_JOB = 'transfer-arrival-check';
-export const SEND_OUTBOX_JOB = 'send-outbox';
+export const TRANSFER_STEP_JOB = 'transfer-step' satisfies JobName;
+export const TRANSFER_ARRIVAL_CHECK_JOB = 'transfer-arrival-check' satisfies JobName;
+export const SEND_OUTBOX_JOB = 'send-outbox' satisfies JobName;
 
-/** The one step that leads into a state: `requested` records the request, the rest are transitions. */
-export interface TransferStepData {
-  networkId: string;
-  transferId: string;
-  to: TransferState;
-  actorUserId: string;
-  /** When the person asked (ISO); the step records this time, whenever the worker gets to it. */
-  at: string;
-  note?: string | null;
-  reason?: string | null;
-  relayRunId?: string | null;
-  receiveMethod?: 'scan' | 'typed';
-  /** Pack step: what travels, for the manifest. */
-  caseCount?: number;
-  contents?: string | null;
-  departureCondition?: string | null;
-}
-
-export interface ArrivalCheckData {
-  networkId: string;
-  transferId: string;
-}
-
-export interface SendOutboxData {
-  /** Only rows whose dedupe key starts with this; none: every pending row. */
-  dedupePrefix?: string;
-}
+export type { ArrivalCheckData, SendOutboxData, TransferStepData } from '../../lib/queue-jobs.js';
 
 // BullMQ accepts a colon in a custom id only as exactly three parts, hence these shapes.
 export const stepJobId = (transferId: string, to: TransferState) => `transfer:${transferId}:${to}`;
@@ -54,14 +29,13 @@ const KEEP_FINISHED = {
 const RETRY = { attempts: 8, backoff: { type: 'exponential', delay: 1000 } } satisfies JobsOptions;
 
 /** Adds a job under a fixed id; a job that already failed for good under that id is retried instead. */
-async function addOnce(name: string, data: object, jobId: string, opts: JobsOptions = {}) {
-  const queue = appQueue();
-  const existing = await queue.getJob(jobId);
+async function addOnce<K extends JobName>(name: K, data: JobPayloads[K], jobId: string, opts: JobsOptions = {}) {
+  const existing = await appQueue().getJob(jobId);
   if (existing && (await existing.getState()) === 'failed') {
     await existing.retry();
     return jobId;
   }
-  await queue.add(name, data, { jobId, ...RETRY, ...KEEP_FINISHED, ...opts });
+  await enqueue(name, data, { ...RETRY, ...KEEP_FINISHED, ...opts, jobId });
   return jobId;
 }
 
@@ -70,7 +44,7 @@ export function enqueueTransferStep(data: TransferStepData) {
 }
 
 export function enqueueOutbox(transferId: string, event: string, dedupePrefix: string) {
-  return addOnce(SEND_OUTBOX_JOB, { dedupePrefix } satisfies SendOutboxData, outboxJobId(transferId, event));
+  return addOnce(SEND_OUTBOX_JOB, { dedupePrefix }, outboxJobId(transferId, event));
 }
 
 export function scheduleArrivalCheck(data: ArrivalCheckData, expectedArrivalAt: Date) {

@@ -1,5 +1,5 @@
 import { subject as asSubject } from '@casl/ability';
-import { Op, QueryTypes, type CreationAttributes, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
@@ -40,7 +40,8 @@ import {
 } from '../../../shared/transfers.js';
 import { notify, peopleAt } from '../notifications/service.js';
 import { isHeavyCase, LIFTING_CAUTION } from '../../../shared/safety/hazards.js';
-import { currentEstimate, recordEstimateChange, noticeCustomerOfTransfer } from '../jobs/service.js';
+import { noticeCustomerOfTransfer, receiveTransferredJob, sendJobOnTheRoad } from '../jobs/service.js';
+import { appendHistory, setInstrumentWhereabouts } from '../registry/service.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -710,7 +711,8 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     const actorName = actor?.name ?? 'Someone';
     const job = t.job;
     const instrument = t.instrument;
-    const events: Array<CreationAttributes<HistoryEvent>> = [];
+    // the job moves through the jobs service, after the step's own history entry (the timeline reads step, then stage)
+    let moveJob: (() => Promise<void>) | null = null;
 
     switch (to) {
       case 'requested':
@@ -740,35 +742,17 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         const network = await Network.findByPk(networkId, { transaction });
         const { departedAt, expectedArrivalAt } = departureFor(run, at, t.fromShop, t.toShop, network);
         await t.update({ state: 'in_transit', handedOverAt: at, departedAt, relayRunId: run?.id ?? null, expectedArrivalAt }, { transaction });
-        const fromStage = job.stage;
-        const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
-        await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
-        await instrument.update({ status: 'in_transit' }, { transaction });
+        await setInstrumentWhereabouts(instrument, { status: 'in_transit' }, transaction);
         // the customer hears where it went and where they still collect it (unless they turned notices off)
         await noticeCustomerOfTransfer(job, t.toShop.name, transferId, transaction);
-        events.push({
-          networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.fromShopId, userId: data.actorUserId,
-          kind: 'stage_changed', summary: `Job ${job.number}: ${stageLabel(fromStage)} → ${stageLabel('in_transit')}`,
-          data: { from: fromStage, to: 'in_transit', transferId }, occurredAt: at, idempotencyKey: `${key}:stage`,
-        });
+        moveJob = () => sendJobOnTheRoad(job, { transferId, userId: data.actorUserId, at, stepKey: key, fromShopId: t.fromShopId }, transaction);
         break;
       }
       case 'received': {
-        const resume: JobStage = job.stageBeforeHold ?? (job.stage === 'in_transit' ? 'approved' : job.stage);
-        // the estimate is taxed where the work is done: a shop with another rate changes its total
-        const estimateBefore = await currentEstimate(job, transaction, t.fromShop.taxRateBasisPoints);
         await t.update({ state: 'received', receivedByUserId: data.actorUserId, receivedAt: at }, { transaction });
-        await job.update({ shopId: t.toShopId, stage: resume, stageBeforeHold: null, assignedUserId: null }, { transaction });
-        await recordEstimateChange(
-          job, data.actorUserId, `re-taxed at ${t.toShop.name}'s rate after the transfer`, estimateBefore, transaction,
-          await currentEstimate(job, transaction, t.toShop.taxRateBasisPoints),
-        );
-        await instrument.update({ currentShopId: t.toShopId, status: 'in_shop' }, { transaction });
-        events.push({
-          networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.toShopId, userId: data.actorUserId,
-          kind: 'stage_changed', summary: `Job ${job.number}: ${stageLabel('in_transit')} → ${stageLabel(resume)} at ${t.toShop.name}`,
-          data: { from: 'in_transit', to: resume, transferId, shopId: t.toShopId }, occurredAt: at, idempotencyKey: `${key}:stage`,
-        });
+        await setInstrumentWhereabouts(instrument, { currentShopId: t.toShopId, status: 'in_shop' }, transaction);
+        moveJob = () =>
+          receiveTransferredJob(job, { transferId, userId: data.actorUserId, at, stepKey: key, fromShop: t.fromShop, toShop: t.toShop }, transaction);
         break;
       }
     }
@@ -776,7 +760,7 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
     const text = describeStep(t, to, data, actorName);
     // the people who will lift a heavy case read the lifting caution in the notice and the e-mail itself
     const liftingNote = isHeavyCase(t.instrument.family, t.instrument.heavyCase ?? false) && LIFTING_STATES.includes(to) ? `\n\n${LIFTING_CAUTION}` : '';
-    await HistoryEvent.create(
+    await appendHistory(
       {
         networkId, instrumentId: instrument.id, jobId: job.id, shopId: to === 'received' ? t.toShopId : t.fromShopId,
         userId: data.actorUserId, kind: HISTORY_KIND[to], summary: text.summary,
@@ -787,9 +771,9 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         },
         occurredAt: at, idempotencyKey: key,
       },
-      { transaction },
+      transaction,
     );
-    for (const e of events) await HistoryEvent.create(e, { transaction });
+    if (moveJob) await moveJob();
 
     // both shops hear of every step; the owners also hear of a request (they may approve it) and of its
     // cancellation (so a request they were weighing does not stay on their mind)
@@ -893,12 +877,12 @@ export async function checkTransferArrival(data: ArrivalCheckData, now = new Dat
     const eta = t.expectedArrivalAt ? formatDateTime(t.expectedArrivalAt, t.toShop.timeZone) : 'the expected time';
     const family = INSTRUMENT_FAMILY_LABELS[t.instrument.family];
     const summary = `Overdue: not received at ${t.toShop.name} by ${eta}.`;
-    await HistoryEvent.create(
+    await appendHistory(
       {
         networkId, instrumentId: t.instrumentId, jobId: t.jobId, shopId: t.toShopId, userId: null,
         kind: 'transfer_overdue', summary, data: { transferId, expectedArrivalAt: t.expectedArrivalAt }, occurredAt: now, idempotencyKey: key,
       },
-      { transaction },
+      transaction,
     );
     const body = `${family} on job ${t.job.number} (${instrumentLine(t.instrument)}) left ${t.fromShop.name} for ${t.toShop.name} and was expected by ${eta}. It has not been received. Check with the courier and with ${t.toShop.name}.`;
     await notify(

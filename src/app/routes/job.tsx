@@ -21,7 +21,7 @@ import { familyLabel, formatPromise } from '@/features/jobs/format';
 import { jobQueryOptions } from '@/features/jobs/queries';
 import { DocumentsPanel } from '@/features/files/components/documents-panel';
 import { PhotosPanel } from '@/features/files/components/photos-panel';
-import { formatCents } from '@shared/jobs/estimate';
+import { formatCents } from '@shared/money';
 import { formatDateTime } from '@shared/time/format';
 import type { JobDetail } from '@shared/jobs/dto';
 import { isApiError } from '@/lib/api-client';

@@ -19,6 +19,11 @@ export function ErrorState({ title = 'Something went wrong', error, onRetry, ret
     <div role="alert" className={cn('rounded-2xl border border-danger-200 bg-danger-50 px-5 py-6 sm:px-6', className)}>
       <h2 className="text-lg font-semibold text-danger-700">{title}</h2>
       <p className="mt-1 text-ink-800">{message}</p>
+      {isApiError(error) && error.requestId ? (
+        <p className="mt-2 text-sm text-ink-700">
+          Reference for support: <span className="font-mono select-all">{error.requestId}</span>
+        </p>
+      ) : null}
       {onRetry ? (
         <Button variant="secondary" className="mt-4" onClick={onRetry} disabled={retrying}>
           {retrying ? 'Trying again…' : 'Try again'}

@@ -21,18 +21,6 @@ export function formatInShop(iso: string, timeZone: string): string {
 export const formatPromise = (date: string | null) => (date ? formatCalendarDate(date) : 'No promise yet');
 
 /**
- * "12.50" → 1250 cents, read from the digits so no binary fraction creeps in; null when it is not
- * an amount with at most two decimals.
- */
-export function parseMoneyToCents(text: string): number | null {
-  const m = /^\s*\$?\s*(\d{1,7})(?:[.,](\d{1,2}))?\s*$/.exec(text);
-  if (!m) return null;
-  return Number(m[1]) * 100 + Number((m[2] ?? '0').padEnd(2, '0'));
-}
-
-export const centsToInput = (cents: number | null | undefined) => (cents == null ? '' : (cents / 100).toFixed(2));
-
-/**
  * Why a typed hours or quantity box is not an amount: letters first ("two" is not a number), then
  * too many decimals. Undefined when the text is empty or fine.
  */

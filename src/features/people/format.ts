@@ -1,5 +1,6 @@
 import { ROLE_LABELS, type Role } from '@shared/domain';
 import type { InvitationStatus } from '@shared/schemas/people';
+import { formatCents } from '@shared/money';
 
 export const roleLabel = (role: Role) => ROLE_LABELS[role];
 
@@ -96,7 +97,7 @@ function show(key: string, value: unknown, names: Record<string, string>): strin
     return value;
   }
   if (typeof value === 'number') {
-    if (key.endsWith('Cents')) return (value / 100).toLocaleString(undefined, { style: 'currency', currency: 'USD' });
+    if (key.endsWith('Cents')) return formatCents(value);
     if (key.endsWith('Bps')) return `${(value / 100).toLocaleString()} %`;
     return value.toLocaleString();
   }

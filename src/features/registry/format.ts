@@ -18,7 +18,5 @@ export function formatInZone(iso: string, timeZone: string | undefined): string 
 /** A calendar date ('YYYY-MM-DD') as words, without shifting it through a time zone. */
 export const formatDay = (day: string): string => formatCalendarDate(day);
 
-/** Today as 'YYYY-MM-DD' in a time zone: the earliest promise a shop can make. */
-export function todayIn(timeZone: string | undefined): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
-}
+/** Today as 'YYYY-MM-DD' in a time zone: the earliest promise a shop can make (shared/time/shop-calendar.ts). */
+export { todayIn } from '@shared/time/shop-calendar';

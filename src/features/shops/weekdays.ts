@@ -18,21 +18,4 @@ export function timeZoneNames(): string[] {
   return intl.supportedValuesOf ? intl.supportedValuesOf('timeZone') : [];
 }
 
-/** "92.50" → 9250 cents; money is integer cents everywhere behind the screen. */
-export function dollarsToCents(text: string): number | undefined {
-  const trimmed = text.trim().replace(/^\$/, '');
-  if (trimmed === '' || !/^\d+(\.\d{1,2})?$/.test(trimmed)) return undefined;
-  return Math.round(Number(trimmed) * 100);
-}
-
-export const centsToDollars = (cents: number) => (cents / 100).toFixed(2);
-
-/** "10.25" (%) → 1025 basis points. */
-export function percentToBasisPoints(text: string): number | undefined {
-  const trimmed = text.trim().replace(/%$/, '');
-  if (trimmed === '') return 0;
-  if (!/^\d+(\.\d{1,2})?$/.test(trimmed)) return undefined;
-  return Math.round(Number(trimmed) * 100);
-}
-
-export const basisPointsToPercent = (bp: number) => String(bp / 100);
+// money and rates: shared/money.ts

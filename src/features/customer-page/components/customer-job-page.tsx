@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from 'react';
 import { APPROVAL_MEANING, customerDecisionSchema, type PublicJobView, type PublicShop } from '@shared/customers/public-page';
-import { formatBasisPoints, formatCents } from '@shared/jobs/estimate';
+import { formatBasisPoints } from '@shared/jobs/estimate';
+import { formatCents } from '@shared/money';
 import { Button } from '@/components/ui/button';
 import { controlClasses, Field, FormError } from '@/components/ui/form-controls';
 import { isApiError } from '@/lib/api-client';

@@ -6,7 +6,7 @@ import { controlClasses, Field, FormError } from '@/components/ui/form-controls'
 import { isApiError } from '@/lib/api-client';
 import { jobApi, useJobMutation } from '../queries';
 import { formatInShop } from '../format';
-import { formatCents } from '@shared/jobs/estimate';
+import { formatCents } from '@shared/money';
 
 /** Who approved the estimate, when and how. At Assessed, recording it moves the job to Approved. */
 export function ApprovalForm({ detail }: { detail: JobDetail }) {

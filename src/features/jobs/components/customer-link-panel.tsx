@@ -2,7 +2,7 @@ import { useState, type FormEvent } from 'react';
 import { useMutation } from '@tanstack/react-query';
 import type { JobDetail } from '@shared/jobs/dto';
 import { ESTIMATE_APPROVAL_METHOD_LABELS } from '@shared/jobs/schemas';
-import { formatCents } from '@shared/jobs/estimate';
+import { formatCents } from '@shared/money';
 import { Button } from '@/components/ui/button';
 import { controlClasses, Field, FormError } from '@/components/ui/form-controls';
 import { isApiError } from '@/lib/api-client';

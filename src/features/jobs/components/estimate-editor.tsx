@@ -3,7 +3,6 @@ import { useQuery } from '@tanstack/react-query';
 import {
   estimateTotals,
   formatBasisPoints,
-  formatCents,
   hasAtMostTwoDecimals,
   lineTotalCents,
   type EstimateLine,
@@ -15,7 +14,8 @@ import { HazardCautions } from '@/components/ui/hazard-cautions';
 import { isApiError } from '@/lib/api-client';
 import { cn } from '@/lib/cn';
 import { catalogQueryOptions, jobApi, useJobMutation } from '../queries';
-import { centsToInput, parseMoneyToCents, amountProblem } from '../format';
+import { centsToInput, formatCents, parseMoney } from '@shared/money';
+import { amountProblem } from '../format';
 
 const parseAmount = (text: string): number | null => {
   if (!/^\s*\d+([.,]\d+)?\s*$/.test(text)) return null;
@@ -217,7 +217,7 @@ function AddPartForm({ detail }: { detail: JobDetail }) {
   const [price, setPrice] = useState('');
   const add = useJobMutation(jobId, (body: object) => jobApi.addLine(jobId, body));
   const q = parseAmount(quantity);
-  const cents = parseMoneyToCents(price);
+  const cents = parseMoney(price);
   const preview = q !== null && q > 0 && cents !== null ? lineTotalCents({ kind: 'part', quantity: q, unitPriceCents: cents }) : null;
   const errors = fieldErrors(add.error);
 

@@ -134,7 +134,11 @@ function PadMapEditor({ ws, rulesHref, jobHref }: { ws: PadMapWorkspace; rulesHr
       <StartedFromNote ws={ws} from={form.from} onFill={form.fillFromSuggestions} readOnly={readOnly} />
       {readOnly ? (
         <p className="rounded-xl border border-paper-300 bg-paper-50 px-4 py-3 text-sm text-ink-800">
-          {ws.job.stage === 'released' ? 'This job has been released, so its pad map is read only.' : 'You can read this pad map; the technicians and managers of its shop record it.'}
+          {ws.job.stage === 'released'
+            ? 'This job has been released, so its pad map is read only.'
+            : ws.job.stage === 'ready'
+              ? 'This job is ready: its estimate is frozen, so its pad map is read only.'
+              : 'You can read this pad map; the technicians and managers of its shop record it.'}
         </p>
       ) : null}
 

@@ -4,6 +4,7 @@ import { formatInches, formatMm } from '@shared/padmap/units';
 import { Button } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import type { PadStock, ReservedLine, ServiceOption } from '../types';
+import { formatCents } from '@shared/money';
 
 interface PartsSummaryProps {
   parts: PartsLine[];
@@ -24,7 +25,7 @@ interface PartsSummaryProps {
   requestError: string | null;
 }
 
-const money = (cents: number) => (cents / 100).toLocaleString('en-US', { style: 'currency', currency: 'USD' });
+const money = formatCents;
 
 /** The parts list the map makes, with what the shop's shelf holds and, once saved, the reservation. */
 export function PartsSummary(props: PartsSummaryProps) {

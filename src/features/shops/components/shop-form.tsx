@@ -5,7 +5,8 @@ import { CheckboxGroup, Field, FormMessage, TextInput } from '@/components/ui/fo
 import type { FieldErrors } from '@/lib/api-client';
 import { zodFieldErrors } from '@/lib/form-errors';
 import type { Shop } from '../queries';
-import { basisPointsToPercent, centsToDollars, dollarsToCents, percentToBasisPoints, timeZoneNames, WEEKDAYS } from '../weekdays';
+import { basisPointsToPercent, centsToInput, parseMoney, percentToBasisPoints } from '@shared/money';
+import { timeZoneNames, WEEKDAYS } from '../weekdays';
 
 interface ShopFormProps {
   shop?: Shop;
@@ -35,7 +36,7 @@ export function ShopForm({ shop, submitLabel, pending, serverErrors = {}, messag
     longitude: shop?.longitude != null ? String(shop.longitude) : '',
     timeZone: shop?.timeZone ?? '',
     openingDays: shop?.openingDays ?? [1, 2, 3, 4, 5],
-    laborRate: shop ? centsToDollars(shop.laborRateCents) : '',
+    laborRate: shop ? centsToInput(shop.laborRateCents) : '',
     taxRate: shop ? basisPointsToPercent(shop.taxRateBasisPoints) : '0',
     phone: text(shop?.phone),
     email: text(shop?.email),
@@ -47,7 +48,7 @@ export function ShopForm({ shop, submitLabel, pending, serverErrors = {}, messag
 
   function submit(event: FormEvent) {
     event.preventDefault();
-    const laborRateCents = dollarsToCents(v.laborRate);
+    const laborRateCents = parseMoney(v.laborRate) ?? undefined;
     const taxRateBasisPoints = percentToBasisPoints(v.taxRate);
     const input = {
       name: v.name, code: v.code, addressLine: v.addressLine, city: v.city, region: v.region, postalCode: v.postalCode,

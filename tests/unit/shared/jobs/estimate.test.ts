@@ -3,12 +3,12 @@ import {
   divideRoundHalfUp,
   estimateTotals,
   formatBasisPoints,
-  formatCents,
   laborHours,
   lineTotalCents,
   taxCents,
   toHundredths,
 } from '../../../../shared/jobs/estimate.js';
+import { formatCents } from '../../../../shared/money.js';
 
 /**
  * Rule under test (shared/jobs/estimate.ts): each line rounded half away from zero to the cent, tax once on the subtotal,

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { basisPointsToPercent, centsToDecimal, invoiceTotals } from '../../../../shared/reports/money.js';
+import { invoiceTotals } from '../../../../shared/reports/money.js';
+import { basisPointsToPercent, centsToDecimal } from '../../../../shared/money.js';
 
 /*
  * Rounding half away from zero is Benchrelay's rule (shared/jobs/estimate.ts), not a tax authority's. The rates (10 %,
