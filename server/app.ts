@@ -5,6 +5,7 @@ import helmet from 'helmet';
 import { config as defaultConfig, type Config } from './config.js';
 import { sessionMiddleware, sessionLifetime, loadActor } from './lib/auth.js';
 import { sameOriginOnly } from './lib/same-origin.js';
+import { refuseUnstorableText } from './lib/text-guard.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { cachedHealthReport } from './lib/health.js';
 import { rateLimiters } from './lib/rate-limit.js';
@@ -52,6 +53,7 @@ export function buildApp(options: AppOptions = {}) {
   // before any router: a page of another site cannot make the browser change anything here
   app.use(sameOriginOnly(config.allowedOrigins));
   app.use(express.json({ limit: '1mb' }));
+  app.use(refuseUnstorableText());
 
   const health = cachedHealthReport(options.healthCacheMs ?? config.healthCacheMs);
   app.get('/api/health', async (_req, res) => {
