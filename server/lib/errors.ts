@@ -43,11 +43,16 @@ export function toAppError(err: unknown): AppError {
   }
   if (e?.name === 'SequelizeUniqueConstraintError') return conflict('That already exists.');
   if (e?.name === 'SequelizeForeignKeyConstraintError') return badRequest('A referenced record does not exist.');
+  if (isStorageUnavailable(err)) {
+    return new AppError(503, 'storage_unavailable', 'File storage is not reachable at the moment. Nothing was saved; please try again in a few minutes.');
+  }
   if (isDatabaseUnavailable(err)) {
     return new AppError(503, 'database_unavailable', 'The database is not reachable at the moment (it may be restarting). Nothing was saved; please try again in a few seconds.');
   }
   // a value the schema let through but PostgreSQL cannot hold (class 22: out of range, bad encoding, too long)
   if (sqlState(err)?.startsWith('22')) return badRequest('A value is out of the range Benchrelay can store.');
+  // a check or not-null constraint the request's validation should have caught first
+  if (sqlState(err) === '23514' || sqlState(err) === '23502') return badRequest('A value is not allowed here.');
   return new AppError(500, 'internal', 'Something went wrong on our side. Please try again.');
 }
 
@@ -80,6 +85,17 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   if (state === 'ECONNREFUSED' || state === 'ECONNRESET' || state === 'EPIPE') return true;
   const message = `${e.message ?? ''} ${e.parent?.message ?? ''}`;
   return /Connection terminated|connection is closed|Client has encountered a connection error|terminating connection due to administrator command/i.test(message);
+}
+
+/**
+ * Object storage did not answer: server/lib/storage.ts turns a refused or dropped connection into a
+ * StorageUnavailableError; an overloaded or failing server answers 5xx through the AWS SDK (`$metadata`).
+ */
+export function isStorageUnavailable(err: unknown): boolean {
+  const e = err as { $metadata?: { httpStatusCode?: number }; name?: string } | null;
+  if (!e || typeof e !== 'object') return false;
+  if (e.name === 'StorageUnavailableError') return true;
+  return '$metadata' in e && (e.$metadata?.httpStatusCode ?? 0) >= 500;
 }
 
 /** HTTP error handler: clients get `{ error: { code, message, fields? } }`, never a stack trace. */

@@ -178,7 +178,9 @@ describe('fuzzing every write route', () => {
 
   const perRoute = TOTAL ? Math.ceil(TOTAL / writeRoutes.length) : PER_ROUTE_DEFAULT;
 
-  it.each(writeRoutes.map((r, i) => [r, i] as const))('%s', async (route, index) => {
+  // a route's bodies run to the end before the next route starts: a timed-out loop would go on writing
+  // in the background and make the next route's row checks fail
+  it.each(writeRoutes.map((r, i) => [r, i] as const))('%s', { timeout: 120_000 + perRoute * 3_000 }, async (route, index) => {
     const c = cases.find((k) => k.route === route)!;
     const who = whoFor(c);
     const byStatus = new Map<number, number>();

@@ -1,17 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { buildApp } from '../../server/app.js';
-import { Skill, Transfer } from '../../server/lib/models.js';
+import { JobLineItem, Skill, Transfer } from '../../server/lib/models.js';
 import { closeServerResources } from '../helpers/close.js';
 import { makeBenchWorld } from '../helpers/bench-world.js';
 import { makeInstrumentWithJob } from '../helpers/factories.js';
 
 /**
- * Found by tests/reliability/fuzz-write-routes.test.ts: a NUL character in any text field made
+ * Found by tests/reliability/fuzz-write-routes.test.ts. A NUL character in any text field made
  * PostgreSQL fail the statement and the API answer 500; a lone surrogate was silently stored as U+FFFD.
  * Both are now refused up front with a field error, and nothing is written.
  */
-describe('text that cannot be stored', () => {
+describe('fuzz findings: text that cannot be stored, quantities that round to zero', () => {
   const app = buildApp();
   let w: Awaited<ReturnType<typeof makeBenchWorld>>;
 
@@ -51,5 +51,19 @@ describe('text that cannot be stored', () => {
     expect(res.status).toBe(400);
     expect(res.body.error.fields).toHaveProperty('reason');
     expect((await Transfer.findByPk(transfer.id))?.state).toBe('requested');
+  });
+
+  // a quantity of 1e-30 passed "more than zero" and "two decimals" but is 0.00 once stored: the database's check failed with a 500
+  it('a line quantity that rounds to zero is a 400 on quantity, and the line keeps its quantity', async () => {
+    const { job } = await makeInstrumentWithJob(w.network.id, w.shop.id, w.people.owner.id, { stage: 'assessed' });
+    const made = await request(app).post(`/api/jobs/${job.id}/line-items`).set('Cookie', w.cookies.owner)
+      .send({ kind: 'part', description: 'Pad', quantity: 2, unitPriceCents: 500 });
+    expect(made.status, made.text).toBe(201);
+    const itemId = made.body.lineItem?.id ?? made.body.id ?? made.body.lineItems?.[0]?.id;
+    expect(itemId).toBeTruthy();
+    const res = await request(app).patch(`/api/jobs/${job.id}/line-items/${itemId}`).set('Cookie', w.cookies.owner).send({ quantity: 9.8e-30 });
+    expect(res.status, res.text).toBe(400);
+    expect(res.body.error.fields).toHaveProperty('quantity');
+    expect(Number((await JobLineItem.findByPk(itemId))?.quantity)).toBe(2);
   });
 });
