@@ -58,11 +58,11 @@ describe('object storage down', () => {
 
     await s3!.close();
     s3 = undefined;
-    const down = await confirm(ticket.id);
-    expect(down.status).toBe(503);
+    const down = await confirm(ticket.attachment.id);
+    expect(down.status, down.text).toBe(503);
     expect(down.body.error.code).toBe('storage_unavailable');
     expect(down.body.error.message).toMatch(/storage is not reachable/i);
-    const pending = await Attachment.findByPk(ticket.id);
+    const pending = await Attachment.findByPk(ticket.attachment.id);
     expect(pending?.status).toBe('pending');
     expect(pending?.etag ?? null).toBeNull();
     // the upload's page answers too: a download link needs no storage call, a health check says storage is down
@@ -70,13 +70,13 @@ describe('object storage down', () => {
     expect(health.status).toBe(503);
 
     await start();
-    const back = await confirm(ticket.id);
+    const back = await confirm(ticket.attachment.id);
     expect(back.status, back.text).toBe(200);
-    expect((await Attachment.findByPk(ticket.id))?.status).toBe('stored');
+    expect((await Attachment.findByPk(ticket.attachment.id))?.status).toBe('stored');
     expect((await headObject(pending!.objectKey))?.size).toBe(pdf.length);
 
     const again = (await begin().expect(201)).body;
     expect((await put(again)).status).toBe(200);
-    expect((await confirm(again.id)).status).toBe(200);
+    expect((await confirm(again.attachment.id)).status).toBe(200);
   });
 });
