@@ -65,13 +65,13 @@ describe(`the worker killed at random while ${TRANSFERS} transfers move through 
     const { networkId } = world;
     const next = random(SEED);
 
-    // the killer: a worker process lives a random 1.5–6 s (it takes a moment to start), then SIGKILL, then a new one
+    // the killer: a worker process lives a random 6–14 s (starting tsx takes a few seconds on a busy machine), then SIGKILL, then a new one
     let kills = 0;
     let killing = true;
     const killer = (async () => {
       while (killing) {
         current = spawnWorker({ WORKER_LOCK_MS: '2000', WORKER_STALLED_INTERVAL_MS: '500', WORKER_CONCURRENCY: '8' });
-        const life = 1500 + next() * 4500;
+        const life = 6000 + next() * 8000;
         await Promise.race([current.exited, new Promise((r) => setTimeout(r, life))]);
         try {
           process.kill(current.pid!, 'SIGKILL');
