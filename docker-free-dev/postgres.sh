@@ -6,9 +6,11 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 ROOT="$(pwd)"
 PGPORT="${PGPORT:-5544}"
-DATA="$ROOT/.data/pg"
-SOCK="$ROOT/.data/pg-socket"
-LOG="$ROOT/.data/pg.log"
+# PG_DIR (relative to the project) puts a second server's data, socket and log elsewhere (fault tests start their own)
+PG_DIR="$ROOT/${PG_DIR:-.data}"
+DATA="$PG_DIR/pg"
+SOCK="$PG_DIR/pg-socket"
+LOG="$PG_DIR/pg.log"
 DB_USER=benchrelay
 DB_PASS=benchrelay
 
@@ -43,10 +45,10 @@ as_pg() {
 is_up() { as_pg "$BIN/pg_ctl" -D "$DATA" status >/dev/null 2>&1; }
 
 start() {
-  mkdir -p "$ROOT/.data" "$SOCK"
+  mkdir -p "$ROOT/.data" "$PG_DIR" "$SOCK"
   if [ "$(id -u)" = 0 ]; then
     # The postgres user must be able to reach the data folder through the project path.
-    chmod o+x "$ROOT/.data" 2>/dev/null || true
+    chmod o+x "$ROOT/.data" "$PG_DIR" 2>/dev/null || true
     p="$ROOT"; while [ "$p" != "/" ]; do chmod o+x "$p" 2>/dev/null || true; p="$(dirname "$p")"; done
     chown postgres "$SOCK"
     touch "$LOG" && chown postgres "$LOG"
@@ -99,7 +101,9 @@ reset_db() {
 case "${1:-start}" in
   start) start ;;
   reset-db) reset_db "${2:?database name}" ;;
+  restart) if is_up; then as_pg "$BIN/pg_ctl" -D "$DATA" -m fast -w restart -l "$LOG" >/dev/null; echo restarted; else start; fi ;;
+  bin) echo "$BIN" ;;
   stop) if is_up; then as_pg "$BIN/pg_ctl" -D "$DATA" -m fast -w stop >/dev/null; echo stopped; else echo "not running"; fi ;;
   status) if is_up; then echo running; else echo stopped; exit 3; fi ;;
-  *) echo "usage: $0 start|stop|status" >&2; exit 2 ;;
+  *) echo "usage: $0 start|stop|restart|status|bin|reset-db NAME" >&2; exit 2 ;;
 esac

@@ -7,6 +7,7 @@ import { config as defaultConfig, type Config } from './config.js';
 import { sessionMiddleware, sessionLifetime, loadActor, requireActor } from './lib/auth.js';
 import { openApiHandler } from './openapi.js';
 import { sameOriginOnly } from './lib/same-origin.js';
+import { refuseUnstorableText } from './lib/text-guard.js';
 import { errorHandler, notFoundHandler } from './lib/errors.js';
 import { logger } from './lib/logger.js';
 import { requestLogger } from './lib/request-log.js';
@@ -60,6 +61,7 @@ export function buildApp(options: AppOptions = {}) {
   // before any router: a page of another site cannot make the browser change anything here
   app.use(sameOriginOnly(config.allowedOrigins));
   app.use(express.json({ limit: '1mb' }));
+  app.use(refuseUnstorableText());
 
   const health = cachedHealthReport(options.healthCacheMs ?? config.healthCacheMs);
   app.get('/api/health', async (_req, res) => {

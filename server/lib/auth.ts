@@ -1,3 +1,4 @@
+import { logger } from './logger.js';
 import type { RequestHandler } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
@@ -61,6 +62,9 @@ declare global {
 }
 
 export const sessionPool = new pg.Pool({ connectionString: config.databaseUrl, max: 4 });
+// An idle connection cut by the server (PostgreSQL restarting) is dropped by the pool, which then emits
+// 'error'; without a listener that event would end the process. Requests meanwhile answer 503.
+sessionPool.on('error', (err) => logger.warn({ err: err.message }, 'a session database connection was lost; the pool opens a new one'));
 
 /**
  * Sessions in PostgreSQL. Not rolling, and the store never touches the row by itself (`disableTouch`):

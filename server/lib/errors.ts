@@ -43,7 +43,59 @@ export function toAppError(err: unknown): AppError {
   }
   if (e?.name === 'SequelizeUniqueConstraintError') return conflict('That already exists.');
   if (e?.name === 'SequelizeForeignKeyConstraintError') return badRequest('A referenced record does not exist.');
+  if (isStorageUnavailable(err)) {
+    return new AppError(503, 'storage_unavailable', 'File storage is not reachable at the moment. Nothing was saved; please try again in a few minutes.');
+  }
+  if (isDatabaseUnavailable(err)) {
+    return new AppError(503, 'database_unavailable', 'The database is not reachable at the moment (it may be restarting). Nothing was saved; please try again in a few seconds.');
+  }
+  // a value the schema let through but PostgreSQL cannot hold (class 22: out of range, bad encoding, too long)
+  if (sqlState(err)?.startsWith('22')) return badRequest('A value is out of the range Benchrelay can store.');
+  // a check or not-null constraint the request's validation should have caught first
+  if (sqlState(err) === '23514' || sqlState(err) === '23502') return badRequest('A value is not allowed here.');
   return new AppError(500, 'internal', 'Something went wrong on our side. Please try again.');
+}
+
+/** The SQLSTATE of a database error, whether Sequelize wrapped it or pg threw it. */
+function sqlState(err: unknown): string | undefined {
+  const e = err as { code?: unknown; parent?: { code?: unknown }; original?: { code?: unknown } } | null;
+  const code = e?.parent?.code ?? e?.original?.code ?? e?.code;
+  return typeof code === 'string' ? code : undefined;
+}
+
+const CONNECTION_ERRORS = new Set([
+  'SequelizeConnectionError',
+  'SequelizeConnectionRefusedError',
+  'SequelizeConnectionTimedOutError',
+  'SequelizeHostNotReachableError',
+  'SequelizeConnectionAcquireTimeoutError',
+  'ConnectionError',
+]);
+
+/**
+ * The database went away under a request: refused or dropped connections, a server shutting down
+ * (57P01 admin shutdown, 57P02 crash shutdown, 57P03 starting up) or connection-class errors (08xxx).
+ */
+export function isDatabaseUnavailable(err: unknown): boolean {
+  const e = err as { name?: string; message?: string; parent?: { code?: unknown; message?: string }; code?: unknown } | null;
+  if (!e) return false;
+  if (e.name && CONNECTION_ERRORS.has(e.name)) return true;
+  const state = sqlState(err);
+  if (state && (state.startsWith('08') || state === '57P01' || state === '57P02' || state === '57P03')) return true;
+  if (state === 'ECONNREFUSED' || state === 'ECONNRESET' || state === 'EPIPE') return true;
+  const message = `${e.message ?? ''} ${e.parent?.message ?? ''}`;
+  return /Connection terminated|connection is closed|Client has encountered a connection error|terminating connection due to administrator command/i.test(message);
+}
+
+/**
+ * Object storage did not answer: server/lib/storage.ts turns a refused or dropped connection into a
+ * StorageUnavailableError; an overloaded or failing server answers 5xx through the AWS SDK (`$metadata`).
+ */
+export function isStorageUnavailable(err: unknown): boolean {
+  const e = err as { $metadata?: { httpStatusCode?: number }; name?: string } | null;
+  if (!e || typeof e !== 'object') return false;
+  if (e.name === 'StorageUnavailableError') return true;
+  return '$metadata' in e && (e.$metadata?.httpStatusCode ?? 0) >= 500;
 }
 
 /**

@@ -38,6 +38,23 @@ export class ObjectChangedError extends Error {
   }
 }
 
+/** Object storage did not answer (refused or dropped connection, timeout): the API answers 503. */
+export class StorageUnavailableError extends Error {
+  constructor(cause: unknown) {
+    super(`Object storage is not reachable: ${(cause as Error)?.message ?? String(cause)}`);
+    this.name = 'StorageUnavailableError';
+  }
+}
+
+const NETWORK_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENOTFOUND', 'EPIPE', 'EAI_AGAIN']);
+
+function isNetworkFailure(err: unknown): boolean {
+  const e = err as { code?: unknown; name?: string; errors?: Array<{ code?: unknown }>; cause?: { code?: unknown } } | null;
+  if (!e) return false;
+  const codes = [e.code, e.cause?.code, ...(e.errors ?? []).map((inner) => inner.code)];
+  return codes.some((c) => typeof c === 'string' && NETWORK_CODES.has(c)) || e.name === 'TimeoutError';
+}
+
 const unquote = (etag: string | undefined) => etag?.replace(/"/g, '');
 
 /** A storage client bound to one S3 configuration; the module exports one bound to `config.s3`. */
@@ -53,13 +70,22 @@ export function createStorage(s3Config: Config['s3']) {
     responseChecksumValidation: 'WHEN_REQUIRED',
   });
   const bucket = s3Config.bucket;
+  const rawSend = s3.send.bind(s3);
+  // every call goes through here, so a storage outage is one recognisable error wherever it happens
+  const s3send: typeof rawSend = (async (...args: Parameters<typeof rawSend>) => {
+    try {
+      return await rawSend(...args);
+    } catch (err) {
+      throw isNetworkFailure(err) ? new StorageUnavailableError(err) : err;
+    }
+  }) as typeof rawSend;
 
   async function putObject(key: string, body: Buffer | Uint8Array | string, contentType: string) {
-    await s3.send(new PutObjectCommand({ Bucket: bucket, Key: key, Body: body, ContentType: contentType }));
+    await s3send(new PutObjectCommand({ Bucket: bucket, Key: key, Body: body, ContentType: contentType }));
   }
 
   async function getObjectBuffer(key: string): Promise<Buffer> {
-    const out = await s3.send(new GetObjectCommand({ Bucket: bucket, Key: key }));
+    const out = await s3send(new GetObjectCommand({ Bucket: bucket, Key: key }));
     if (!out.Body) throw new Error(`Object ${key} has no body`);
     return Buffer.from(await out.Body.transformToByteArray());
   }
@@ -73,7 +99,7 @@ export function createStorage(s3Config: Config['s3']) {
     const expected = unquote(opts.etag);
     let out;
     try {
-      out = await s3.send(new GetObjectCommand({ Bucket: bucket, Key: key, ...(expected ? { IfMatch: `"${expected}"` } : {}) }));
+      out = await s3send(new GetObjectCommand({ Bucket: bucket, Key: key, ...(expected ? { IfMatch: `"${expected}"` } : {}) }));
     } catch (err) {
       if (err instanceof S3ServiceException && (err.name === 'PreconditionFailed' || err.$metadata.httpStatusCode === 412)) {
         throw new ObjectChangedError(key);
@@ -107,7 +133,7 @@ export function createStorage(s3Config: Config['s3']) {
   async function copyObject(fromKey: string, toKey: string, opts: { ifMatch?: string } = {}) {
     const expected = unquote(opts.ifMatch);
     try {
-      await s3.send(
+      await s3send(
         new CopyObjectCommand({
           Bucket: bucket,
           Key: toKey,
@@ -126,7 +152,7 @@ export function createStorage(s3Config: Config['s3']) {
   /** Size, type and ETag as storage recorded them, or null when there is no such object. */
   async function headObject(key: string): Promise<ObjectInfo | null> {
     try {
-      const out = await s3.send(new HeadObjectCommand({ Bucket: bucket, Key: key }));
+      const out = await s3send(new HeadObjectCommand({ Bucket: bucket, Key: key }));
       return { size: out.ContentLength ?? 0, contentType: out.ContentType, etag: unquote(out.ETag) };
     } catch (err) {
       if (isNotFound(err)) return null;
@@ -135,7 +161,7 @@ export function createStorage(s3Config: Config['s3']) {
   }
 
   async function deleteObject(key: string) {
-    await s3.send(new DeleteObjectCommand({ Bucket: bucket, Key: key }));
+    await s3send(new DeleteObjectCommand({ Bucket: bucket, Key: key }));
   }
 
   /** The uploader must send exactly this Content-Type: it is part of the signature. */
@@ -152,7 +178,7 @@ export function createStorage(s3Config: Config['s3']) {
   /** True when the bucket answers within about two seconds; never throws. */
   async function checkStorage(): Promise<boolean> {
     try {
-      await s3.send(new HeadBucketCommand({ Bucket: bucket }), { abortSignal: AbortSignal.timeout(CHECK_TIMEOUT_MS) });
+      await s3send(new HeadBucketCommand({ Bucket: bucket }), { abortSignal: AbortSignal.timeout(CHECK_TIMEOUT_MS) });
       return true;
     } catch {
       return false;
@@ -162,10 +188,10 @@ export function createStorage(s3Config: Config['s3']) {
   /** Creates the bucket when it is missing (a fresh storage server); an existing one is left alone. */
   async function ensureBucket() {
     try {
-      await s3.send(new HeadBucketCommand({ Bucket: bucket }));
+      await s3send(new HeadBucketCommand({ Bucket: bucket }));
     } catch (err) {
       if (!isNotFound(err)) throw err;
-      await s3.send(new CreateBucketCommand({ Bucket: bucket }));
+      await s3send(new CreateBucketCommand({ Bucket: bucket }));
     }
   }
 

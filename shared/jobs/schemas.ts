@@ -110,7 +110,7 @@ export const partLineSchema = z.object({
   kind: z.literal('part'),
   partId: z.uuid().optional(),
   description: z.string().trim().min(1, 'Say what the part is.').max(300),
-  quantity: hundredths('Quantity').refine((q) => q > 0, 'Quantity must be more than zero.'),
+  quantity: hundredths('Quantity').refine((q) => Math.round(q * 100) > 0, 'Quantity must be more than zero.'),
   unitPriceCents: cents('Unit price'),
 });
 export const lineItemCreateSchema = z.discriminatedUnion('kind', [laborLineSchema, partLineSchema]);
@@ -120,7 +120,7 @@ export const lineItemUpdateSchema = z
   .object({
     description: z.string().trim().min(1).max(300),
     hours: hundredths('Hours', 9999.99),
-    quantity: hundredths('Quantity').refine((q) => q > 0, 'Quantity must be more than zero.'),
+    quantity: hundredths('Quantity').refine((q) => Math.round(q * 100) > 0, 'Quantity must be more than zero.'),
     unitPriceCents: cents('Unit price'),
   })
   .partial()
