@@ -4,6 +4,7 @@ import Holidays from 'date-holidays';
 import type { IsoWeekday } from '../domain.js';
 import { isTimeZone } from '../schemas/shops.js';
 import { localDate } from '../time/shop-calendar.js';
+import { formatCalendarDate } from '../time/calendar-date.js';
 
 /**
  * Promised dates are counted in the shop's opening days, on the shop's own calendar.
@@ -190,7 +191,5 @@ export function isOverdue(promisedOn: string | null | undefined, stage: string, 
   return localDate(now, timeZone) > promisedOn;
 }
 
-/** "Tue 14 Oct 2025" for a 'YYYY-MM-DD' date; the date is a calendar day, so no time zone shifts it. */
-export function formatCalendarDate(date: string): string {
-  return format(parseISO(date), 'EEE d MMM yyyy');
-}
+/** "Tue 14 Oct 2025" for a 'YYYY-MM-DD' date (shared/time/calendar-date.ts, kept here for existing imports). */
+export { formatCalendarDate };

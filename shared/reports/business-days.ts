@@ -2,6 +2,7 @@ import { tz } from '@date-fns/tz';
 import { addDays, differenceInCalendarDays, format, getISODay, startOfDay } from 'date-fns';
 import type { IsoWeekday } from '../domain.js';
 import { publicHolidays } from '../jobs/promised-date.js';
+import { localDateIn } from '../time/calendar-date.js';
 
 /**
  * Business days, as Benchrelay counts them for turnaround: the shop's opening days that come AFTER the
@@ -58,10 +59,8 @@ function isoWeekdayOf(date: string): number {
   return ((new Date(Date.UTC(y, m - 1, d)).getUTCDay() + 6) % 7) + 1;
 }
 
-/** Calendar date ('YYYY-MM-DD') of an instant as the shop's wall calendar shows it. */
-export function localDateIn(at: Date, timeZone: string): string {
-  return format(at, 'yyyy-MM-dd', { in: tz(timeZone) });
-}
+/** Calendar date ('YYYY-MM-DD') of an instant as the shop's wall calendar shows it (kept here for the server's imports). */
+export { localDateIn };
 
 /** Whether the shop opens on the local date of this instant. */
 export function isOpeningDay(at: Date, timeZone: string, openingDays: readonly IsoWeekday[] | readonly number[]): boolean {

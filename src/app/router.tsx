@@ -1,42 +1,89 @@
+import { lazy, Suspense, useState, type ComponentType } from 'react';
 import { createBrowserRouter, type RouteObject } from 'react-router-dom';
+import { Spinner } from '@/components/ui/spinner';
 import { AppLayout } from './layout/app-layout';
-import { AuditLogRoute } from './routes/audit-log';
-import { DashboardRoute } from './routes/dashboard';
-import { DevMailRoute } from './routes/dev-mail';
-import { AcceptInvitationRoute, InvitationRoute } from './routes/invitation';
-import { CustomerJobRoute } from './routes/customer-job';
-import { InviteRoute } from './routes/invite';
-import { PersonRoute } from './routes/person';
-import { ShopRoute } from './routes/shop';
-import { NewShopRoute } from './routes/shop-new';
-import { HomeRoute } from './routes/home';
 import { NotFoundRoute } from './routes/not-found';
-import { PeopleRoute } from './routes/people';
-import { OverdueRoute, ReportJobsRoute, TransfersInFlightRoute } from './routes/report-lists';
-import { ReportsRoute } from './routes/reports';
 import { RequireAbility } from './routes/require-ability';
 import { RouteErrorBoundary } from './routes/route-error';
 import { SessionGate } from './routes/session-gate';
-import { SignInRoute } from './routes/sign-in';
-import { ShopsRoute } from './routes/shops';
-import { TransfersRoute } from './routes/transfers';
-import { TransferNewRoute } from './routes/transfer-new';
-import { TransferDetailRoute } from './routes/transfer-detail';
-import { RegistryRoute } from './routes/registry';
-import { InstrumentRoute } from './routes/instrument';
-import { InstrumentLabelRoute } from './routes/instrument-label';
-import { IntakeRoute } from './routes/intake';
-import { RegistryImportRoute } from './routes/registry-import';
-import { PadMapRoute } from './routes/pad-map';
-import { PadRulesRoute } from './routes/pad-rules';
-import { StockRoute } from './routes/stock';
-import { JobBoardRoute } from './routes/job-board';
-import { MyBenchRoute } from './routes/my-bench';
-import { JobRoute } from './routes/job';
-import { ServiceCatalogRoute } from './routes/service-catalog';
-import { InstrumentPhotosRoute } from './routes/instrument-photos';
-import { InboxRoute } from './routes/inbox';
-import { NotificationSettingsRoute } from './routes/notification-settings';
+
+/**
+ * Every page is a chunk of its own, loaded when first visited: the first script holds only the shell
+ * (router, session, layout), and charts, the CSV parser and QR labels arrive with the pages that use them.
+ */
+const pageLoaders: Array<() => Promise<unknown>> = [];
+
+function page(load: () => Promise<{ default: ComponentType }>) {
+  let loaded: ComponentType | undefined;
+  const loadAndKeep = () =>
+    load().then((module) => {
+      loaded = module.default;
+      return module;
+    });
+  pageLoaders.push(loadAndKeep);
+  const Lazy = lazy(loadAndKeep);
+  return function Page() {
+    // a page whose code is already here renders at once; the choice is fixed per mount, so the page is
+    // never remounted (and its state lost) when its code arrives while it is shown
+    const [Ready] = useState(() => loaded);
+    if (Ready) return <Ready />;
+    return (
+      <Suspense fallback={<PageLoading />}>
+        <Lazy />
+      </Suspense>
+    );
+  };
+}
+
+/** Loads every page's code now (tests, which would otherwise wait for each module on first render). */
+export function preloadPages(): Promise<unknown> {
+  return Promise.all(pageLoaders.map((load) => load()));
+}
+
+function PageLoading() {
+  return (
+    <div className="flex justify-center p-8">
+      <Spinner label="Loading the page…" />
+    </div>
+  );
+}
+
+const AuditLogRoute = page(() => import('./routes/audit-log').then((m) => ({ default: m.AuditLogRoute })));
+const DashboardRoute = page(() => import('./routes/dashboard').then((m) => ({ default: m.DashboardRoute })));
+const DevMailRoute = page(() => import('./routes/dev-mail').then((m) => ({ default: m.DevMailRoute })));
+const AcceptInvitationRoute = page(() => import('./routes/invitation').then((m) => ({ default: m.AcceptInvitationRoute })));
+const InvitationRoute = page(() => import('./routes/invitation').then((m) => ({ default: m.InvitationRoute })));
+const InviteRoute = page(() => import('./routes/invite').then((m) => ({ default: m.InviteRoute })));
+const PersonRoute = page(() => import('./routes/person').then((m) => ({ default: m.PersonRoute })));
+const ShopRoute = page(() => import('./routes/shop').then((m) => ({ default: m.ShopRoute })));
+const NewShopRoute = page(() => import('./routes/shop-new').then((m) => ({ default: m.NewShopRoute })));
+const CustomerJobRoute = page(() => import('./routes/customer-job').then((m) => ({ default: m.CustomerJobRoute })));
+const HomeRoute = page(() => import('./routes/home').then((m) => ({ default: m.HomeRoute })));
+const PeopleRoute = page(() => import('./routes/people').then((m) => ({ default: m.PeopleRoute })));
+const OverdueRoute = page(() => import('./routes/report-lists').then((m) => ({ default: m.OverdueRoute })));
+const ReportJobsRoute = page(() => import('./routes/report-lists').then((m) => ({ default: m.ReportJobsRoute })));
+const TransfersInFlightRoute = page(() => import('./routes/report-lists').then((m) => ({ default: m.TransfersInFlightRoute })));
+const ReportsRoute = page(() => import('./routes/reports').then((m) => ({ default: m.ReportsRoute })));
+const SignInRoute = page(() => import('./routes/sign-in').then((m) => ({ default: m.SignInRoute })));
+const ShopsRoute = page(() => import('./routes/shops').then((m) => ({ default: m.ShopsRoute })));
+const TransfersRoute = page(() => import('./routes/transfers').then((m) => ({ default: m.TransfersRoute })));
+const TransferNewRoute = page(() => import('./routes/transfer-new').then((m) => ({ default: m.TransferNewRoute })));
+const TransferDetailRoute = page(() => import('./routes/transfer-detail').then((m) => ({ default: m.TransferDetailRoute })));
+const RegistryRoute = page(() => import('./routes/registry').then((m) => ({ default: m.RegistryRoute })));
+const InstrumentRoute = page(() => import('./routes/instrument').then((m) => ({ default: m.InstrumentRoute })));
+const InstrumentLabelRoute = page(() => import('./routes/instrument-label').then((m) => ({ default: m.InstrumentLabelRoute })));
+const IntakeRoute = page(() => import('./routes/intake').then((m) => ({ default: m.IntakeRoute })));
+const RegistryImportRoute = page(() => import('./routes/registry-import').then((m) => ({ default: m.RegistryImportRoute })));
+const PadMapRoute = page(() => import('./routes/pad-map').then((m) => ({ default: m.PadMapRoute })));
+const PadRulesRoute = page(() => import('./routes/pad-rules').then((m) => ({ default: m.PadRulesRoute })));
+const StockRoute = page(() => import('./routes/stock').then((m) => ({ default: m.StockRoute })));
+const JobBoardRoute = page(() => import('./routes/job-board').then((m) => ({ default: m.JobBoardRoute })));
+const MyBenchRoute = page(() => import('./routes/my-bench').then((m) => ({ default: m.MyBenchRoute })));
+const JobRoute = page(() => import('./routes/job').then((m) => ({ default: m.JobRoute })));
+const ServiceCatalogRoute = page(() => import('./routes/service-catalog').then((m) => ({ default: m.ServiceCatalogRoute })));
+const InstrumentPhotosRoute = page(() => import('./routes/instrument-photos').then((m) => ({ default: m.InstrumentPhotosRoute })));
+const InboxRoute = page(() => import('./routes/inbox').then((m) => ({ default: m.InboxRoute })));
+const NotificationSettingsRoute = page(() => import('./routes/notification-settings').then((m) => ({ default: m.NotificationSettingsRoute })));
 
 /** Shared by the browser router and by tests, which mount the same tree in a memory router. */
 export const routes: RouteObject[] = [

@@ -1,9 +1,12 @@
 import { render } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
-import { vi } from 'vitest';
+import { vi, beforeAll } from 'vitest';
 import { AppProviders } from '@/app/providers';
-import { routes } from '@/app/router';
+import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+
+// pages are lazy chunks: load their code once up front, as a warm browser cache would have it
+beforeAll(() => preloadPages(), 120_000);
 
 /**
  * Mounts the whole client at an address with a fake fetch answering per 'METHOD /path'. For client

@@ -1,4 +1,4 @@
-import { Op, QueryTypes, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, QueryTypes, literal, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import { sequelize } from '../../lib/db.js';
 import { AuditLog, Invitation, Network, User, Membership, Shop, Skill, TechnicianSkill } from '../../lib/models.js';
 import { endSessionsOf, type Actor } from '../../lib/auth.js';
@@ -9,19 +9,23 @@ import { defineRulesFor } from '../../../shared/auth/ability.js';
 import type { Role } from '../../../shared/domain.js';
 import type { AuditLogQuery, MembershipUpdate, PeopleQuery, PersonUpdate, RoleAssignment } from '../../../shared/schemas/people.js';
 
-/** Loads the person behind a session with their current roles; null when deactivated or gone. */
+/**
+ * Loads the person behind a session with their current roles; null when deactivated or gone. This runs
+ * on every signed-in request, so it is one query (person and memberships together), not one per table.
+ */
 export async function loadActorRecord(userId: string, networkId: string): Promise<Omit<Actor, 'ability'> | null> {
-  const user = await User.findOne({ where: { id: userId, networkId, active: true } });
-  if (!user) return null;
-  const memberships = await Membership.findAll({ where: { networkId, userId }, attributes: ['shopId', 'role'] });
-  if (!memberships.length) return null;
-  return {
-    id: user.id,
-    networkId,
-    email: user.email,
-    name: user.name,
-    memberships: memberships.map((m) => ({ shopId: m.shopId ?? null, role: m.role as Role })),
-  };
+  const rows = await sequelize.query<{ email: string; name: string; memberships: Array<{ shopId: string | null; role: Role }> }>(
+    `select u.email, u.name,
+            json_agg(json_build_object('shopId', m.shop_id, 'role', m.role) order by m.shop_id nulls first, m.role) as memberships
+       from users u
+       join memberships m on m.network_id = u.network_id and m.user_id = u.id
+      where u.id = :userId and u.network_id = :networkId and u.active
+      group by u.network_id, u.id`,
+    { type: QueryTypes.SELECT, replacements: { userId, networkId } },
+  );
+  const row = rows[0];
+  if (!row) return null;
+  return { id: userId, networkId, email: row.email, name: row.name, memberships: row.memberships };
 }
 
 /** Why a sign-in was refused; the sign-in page explains each in plain words (`/sign-in?error=…`). */
@@ -114,15 +118,22 @@ export async function resolveSignIn(identity: SignedInIdentity): Promise<SignInO
 
 /** What the client needs to shape its screens: who, where, which shops, and the permission rules. */
 export async function describeMe(actor: Actor) {
-  const network = await Network.findByPk(actor.networkId);
   const shopWhere = accessibleWhere(actor.ability, 'read', 'Shop');
+  // the network's name rides along with the shops: one query, plain rows (this answers on every page load)
+  const networkName = literal(`(select n.name from networks n where n.id = ${sequelize.escape(actor.networkId)})`);
   const shops = shopWhere
-    ? await Shop.findAll({ where: { ...shopWhere, networkId: actor.networkId }, order: [['name', 'ASC']] })
+    ? ((await Shop.findAll({
+        where: { ...shopWhere, networkId: actor.networkId },
+        attributes: ['id', 'name', 'city', 'timeZone', [networkName, 'networkName']],
+        order: [['name', 'ASC']],
+        raw: true,
+      })) as unknown as Array<{ id: string; name: string; city: string | null; timeZone: string; networkName: string }>)
     : [];
+  const name = shops.length ? shops[0].networkName : ((await Network.findByPk(actor.networkId, { attributes: ['name'], raw: true }))?.name ?? '');
   const shopNames = new Map(shops.map((s) => [s.id, s.name]));
   return {
     user: { id: actor.id, email: actor.email, name: actor.name },
-    network: { id: actor.networkId, name: network?.name ?? '' },
+    network: { id: actor.networkId, name },
     memberships: actor.memberships.map((m) => ({
       shopId: m.shopId,
       shopName: m.shopId ? (shopNames.get(m.shopId) ?? null) : null,

@@ -1,5 +1,5 @@
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, type InstrumentFamily, type JobStage } from '@shared/domain';
-import { formatCalendarDate } from '@shared/jobs/promised-date';
+import { formatCalendarDate } from '@shared/time/calendar-date';
 import { formatDateTime } from '@shared/time/format';
 
 export const stageLabel = (stage: JobStage) => JOB_STAGE_LABELS[stage] ?? stage;

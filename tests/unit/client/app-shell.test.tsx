@@ -2,12 +2,15 @@
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi, beforeAll } from 'vitest';
 import { CURRENT_SHOP_STORAGE_KEY } from '@/app/current-shop';
 import { AppProviders } from '@/app/providers';
-import { routes } from '@/app/router';
+import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import { assignLocation } from '@/lib/browser';
+
+// pages are lazy chunks: load their code once up front, as a warm browser cache would have it
+beforeAll(() => preloadPages(), 120_000);
 
 // A fake fetch is enough here: these tests are about what the client shows for each answer of the
 // API contract; the server side of that contract is tested against the real app elsewhere.

@@ -5,8 +5,11 @@ import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { DashboardReport } from '@shared/reports/schemas';
 import { AppProviders } from '@/app/providers';
-import { routes } from '@/app/router';
+import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+
+// pages are lazy chunks: load their code once up front, as a warm browser cache would have it
+beforeAll(() => preloadPages(), 120_000);
 
 // As in app-shell.test.tsx: a fake fetch that answers the API contract; the server side of the contract
 // is tested against the real app in tests/api/reports*.test.ts.

@@ -2,10 +2,13 @@
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, render, screen, within } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
-import { afterEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, describe, expect, it, vi, beforeAll } from 'vitest';
 import { AppProviders } from '@/app/providers';
-import { routes } from '@/app/router';
+import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+
+// pages are lazy chunks: load their code once up front, as a warm browser cache would have it
+beforeAll(() => preloadPages(), 120_000);
 
 // The development mail page only reads `GET /api/dev/mail`; a fake fetch answers it here, while the
 // catcher behind the endpoint is tested against real SMTP elsewhere.

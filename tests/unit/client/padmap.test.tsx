@@ -2,12 +2,15 @@
 import '@testing-library/jest-dom/vitest';
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi, beforeAll } from 'vitest';
 import { AppProviders } from '@/app/providers';
-import { routes } from '@/app/router';
+import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import { DEFAULT_PAD_RULES } from '@shared/padmap/rules';
 import type { PadMapWorkspace } from '@/features/padmap/types';
+
+// pages are lazy chunks: load their code once up front, as a warm browser cache would have it
+beforeAll(() => preloadPages(), 120_000);
 
 // The screen against fixed answers of the pad map API; the API itself is tested against the real app
 // in tests/api/padmaps.test.ts, and the whole flow in Chromium in tests/e2e/pad-map.test.ts.

@@ -1,7 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import { invoiceQuerySchema } from '@shared/reports/schemas';
 import { csvLinks } from '@shared/reports/links';
-import { localDateIn } from '@shared/reports/business-days';
+import { localDateIn } from '@shared/time/calendar-date';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { downloadFile, DownloadError } from '../download';

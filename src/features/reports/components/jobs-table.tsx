@@ -4,7 +4,7 @@ import { Link } from 'react-router-dom';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS } from '@shared/domain';
 import type { JobListFilters } from '@shared/reports/links';
 import { formatIsoDate } from '@shared/reports/format';
-import { localDateIn } from '@shared/reports/business-days';
+import { localDateIn } from '@shared/time/calendar-date';
 import { jobsQueryOptions } from '../queries';
 import { ListStates, ShownOf, tableShell, td, tdNum, th } from './list-states';
 
