@@ -18,7 +18,7 @@ import {
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { appendHistory, customerViewById, visibleCustomerNames } from '../registry/service.js';
+import { appendHistory, customerViewById, visibleCustomerNames } from '../registry/index.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import {
@@ -30,7 +30,7 @@ import {
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
-import { closedDaysOf } from '../networks/service.js';
+import { closedDaysOf } from '../networks/index.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {
   allowedMoves,
@@ -65,7 +65,7 @@ import type {
   PersonRef,
   TimeLogDto,
 } from '../../../shared/jobs/dto.js';
-import { notify, peopleAt, queueEmail } from '../notifications/service.js';
+import { notify, peopleAt, queueEmail } from '../notifications/index.js';
 
 /**
  * Jobs at the bench: the board, the job page, stage moves, the estimate, approvals, time and the

@@ -13,8 +13,8 @@ import { readEntries, type savePadMapSchema, type StoredEntry } from '../../../s
 import { padKeysFor } from '../../../shared/padmap/keys.js';
 import { padRulesSchema, resolvePadRules, type PadRules } from '../../../shared/padmap/rules.js';
 import { suggestFromMaps, type EarlierMap, type Suggestions } from '../../../shared/padmap/suggest.js';
-import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/service.js';
-import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
+import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/index.js';
+import { currentEstimate, recordEstimateChange } from '../jobs/index.js';
 
 /**
  * Pad maps: the per-key measurements of a repad and the pads chosen for them. A map is kept with the

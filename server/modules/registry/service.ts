@@ -7,7 +7,7 @@ import { Customer, HistoryEvent, Instrument, Shop } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { AppError, badRequest, forbidden, notFound, zodFields } from '../../lib/errors.js';
-import { findJobOpenedBy, openJob } from '../jobs/service.js';
+import { findJobOpenedBy, openJob } from '../jobs/index.js';
 import { INSTRUMENT_FAMILY_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind } from '../../../shared/domain.js';
 import { normalizeMaker, normalizeSerial } from '../../../shared/serial.js';
 import { osaDistance, singleEditVariants } from '../../../shared/serial-distance.js';

@@ -39,8 +39,8 @@ import {
   type CreateTransferInput,
   type TransferView,
 } from '../../../shared/transfers.js';
-import { notify, peopleAt } from '../notifications/service.js';
-import { currentEstimate, recordEstimateChange } from '../jobs/service.js';
+import { notify, peopleAt } from '../notifications/index.js';
+import { currentEstimate, recordEstimateChange } from '../jobs/index.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
