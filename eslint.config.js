@@ -138,6 +138,8 @@ export default tseslint.config(
       ...reactHooks.configs.recommended.rules,
       'no-restricted-globals': ['error', ...nodeOnlyGlobals],
       'no-restricted-imports': ['error', nodeBuiltins],
+      // A component's `autoFocus` prop only passes the choice on; the DOM element where it lands is checked.
+      'jsx-a11y/no-autofocus': ['error', { ignoreNonDOM: true }],
     },
   },
   {

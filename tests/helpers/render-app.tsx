@@ -4,6 +4,7 @@ import { vi } from 'vitest';
 import { AppProviders } from '@/app/providers';
 import { routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+import { requestUrl } from './request-url';
 
 /**
  * Mounts the whole client at an address with a fake fetch answering per 'METHOD /path'. For client
@@ -24,7 +25,7 @@ export function renderApp(path: string, answers: Answers) {
   vi.stubGlobal(
     'fetch',
     vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-      const url = new URL(String(input), 'http://localhost');
+      const url = requestUrl(input);
       const method = (init.method ?? 'GET').toUpperCase();
       const body = typeof init.body === 'string' ? JSON.parse(init.body) : undefined;
       sent.push({ method, path: url.pathname, search: url.search, body });

@@ -100,7 +100,7 @@ async function findShop(networkId: string, shopId: string, transaction?: Transac
 async function readableJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
   const job = await findJob(actor, jobId, options);
   // a job the person may not read answers like a missing one, so its existence does not leak
-  if (!actor.ability.can('read', subject('Job', asRow(job)) as never)) throw notFound('That job');
+  if (!actor.ability.can('read', subject('Job', asRow(job)))) throw notFound('That job');
   return job;
 }
 
@@ -338,8 +338,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
 
   const row = asRow(job);
   const roles = rolesFor(actor, job.shopId);
-  const canUpdate = actor.ability.can('update', subject('Job', row) as never);
-  const canMove = actor.ability.can('move_stage', subject('Job', row) as never);
+  const canUpdate = actor.ability.can('update', subject('Job', row));
+  const canMove = actor.ability.can('move_stage', subject('Job', row));
   const totals = estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints);
   const needsReapproval = estimateNeedsReapproval(job, totals.totalCents);
   const moves = canMove ? allowedMoves(jobState(job, needsReapproval), roles) : [];
@@ -428,7 +428,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       update: canUpdate,
       moveStage: canMove && moves.length > 0,
       recordApproval: canUpdate && mayRecordApproval(roles) && !['intake', 'released'].includes(job.stage),
-      editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !ESTIMATE_FROZEN.includes(job.stage),
+      editEstimate: actor.ability.can('edit_estimate', subject('Job', row)) && !ESTIMATE_FROZEN.includes(job.stage),
       logTime: canUpdate,
       addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
     },
@@ -521,7 +521,7 @@ export async function applyStageMove(
   }
   const from = job.stage;
   const now = new Date();
-  const changes: Partial<Job> = { stage: check.to, stageBeforeHold: check.stageBeforeHold as MainStage | null };
+  const changes: Partial<Job> = { stage: check.to, stageBeforeHold: check.stageBeforeHold };
   if (check.to === 'ready') changes.readyAt = now;
   if (check.to === 'released') changes.releasedAt = now;
   // a technician who starts unassigned work takes it

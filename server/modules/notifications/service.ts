@@ -151,10 +151,10 @@ async function sendClaimed(row: ClaimedRow, transaction: Transaction): Promise<S
   try {
     const info = await transport.sendMail({
       from: config.smtp.from,
-      to: p.to as string | string[],
-      subject: p.subject as string,
-      text: p.text as string,
-      ...(p.html ? { html: p.html as string } : {}),
+      to: p.to,
+      subject: p.subject,
+      text: p.text,
+      ...(p.html ? { html: p.html } : {}),
       messageId: `<${row.id}@outbox.benchrelay>`,
     });
     await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date(), lastError: null }, { where, transaction });
@@ -241,7 +241,7 @@ export async function deliverOutboxMessage(networkId: string, outboxId: string):
       transaction,
     });
     if (!row || row.sentAt) return null;
-    return sendClaimed({ id: row.id, networkId, payload: row.payload as ClaimedRow['payload'], attempts: row.attempts }, transaction);
+    return sendClaimed({ id: row.id, networkId, payload: row.payload, attempts: row.attempts }, transaction);
   });
   if (!outcome) return { sent: false };
   if (outcome.kind === 'failed') throw outcome.error;

@@ -133,7 +133,7 @@ export async function customerViewById(actor: Actor, customerId: string | null, 
   const c = await Customer.findOne({ where: { networkId: actor.networkId, id: customerId }, transaction });
   if (!c) return null;
   const served = await servedShopsOf(actor.networkId, [c.id], transaction);
-  return customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
+  return customerView(actor, c.get({ plain: true }), served.get(c.id) ?? []);
 }
 
 async function servedShopsOf(networkId: string, customerIds: string[], transaction?: Transaction): Promise<Map<string, string[]>> {
@@ -389,7 +389,7 @@ export async function getInstrument(actor: Actor, id: string) {
     const c = await Customer.findOne({ where: { networkId, id: instrument.ownerCustomerId } });
     if (c) {
       const served = await servedShopsOf(networkId, [c.id]);
-      owner = customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
+      owner = customerView(actor, c.get({ plain: true }), served.get(c.id) ?? []);
     }
   }
 
@@ -498,7 +498,7 @@ export async function getTimeline(actor: Actor, id: string, filters?: TimelineFi
 }
 
 function defaultSummary(kind: string, data: Record<string, unknown>): string {
-  if (kind === 'photo') return data.tag ? `Photo (${String(data.tag)})` : 'Photo';
+  if (kind === 'photo') return typeof data.tag === 'string' && data.tag ? `Photo (${data.tag})` : 'Photo';
   if (kind === 'document') return 'Document';
   if (kind === 'pad_map') return `Pad map of ${Number(data.keys ?? 0)} keys`;
   return kind.replace(/_/g, ' ');
@@ -565,7 +565,7 @@ export async function createCustomer(actor: Actor, input: z.output<typeof custom
     const shop = await Shop.findOne({ where: { networkId: actor.networkId, id: input.shopId }, transaction });
     if (!shop) throw notFound('That shop');
     const customer = await createCustomerIn(actor, shop.id, input, transaction);
-    return customerView(actor, customer.get({ plain: true }) as CustomerRow, []);
+    return customerView(actor, customer.get({ plain: true }), []);
   });
 }
 
@@ -814,7 +814,7 @@ function importChanges(instrument: Instrument, row: ImportRow, tag: string | und
 }
 
 const mayUpdate = (actor: Actor, instrument: Instrument) =>
-  actor.ability.can('update', asSubject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>) as never);
+  actor.ability.can('update', asSubject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>));
 
 function heldElsewhere(ctx: ImportContext, row: ImportRow, instrument: Instrument): ImportRowResult {
   const name = ctx.shopNames.get(instrument.currentShopId) ?? 'another shop';

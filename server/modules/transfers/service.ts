@@ -105,7 +105,7 @@ async function loadBundle(networkId: string, id: string, transaction?: Transacti
 /** A transfer the person may read; anything else is "not found", so ids of other shops do not leak. */
 async function loadReadable(actor: Actor, id: string): Promise<Bundle> {
   const row = await loadBundle(actor.networkId, id);
-  if (!row || !actor.ability.can('read', asSubject('Transfer', plain(row)) as never)) throw notFound('That transfer');
+  if (!row || !actor.ability.can('read', asSubject('Transfer', plain(row)))) throw notFound('That transfer');
   return row;
 }
 
@@ -225,7 +225,7 @@ export async function getTransfer(actor: Actor, id: string) {
     receivedBy: person(t.receivedBy),
     relayRun: t.relayRun ? runBrief(t.relayRun, t.fromShop, now) : null,
     runOptions: runs.map((r) => runBrief(r, t.fromShop, now)).sort((a, b) => (a.nextDepartureAt ?? '').localeCompare(b.nextDepartureAt ?? '')),
-    manifestAvailable: !!t.manifestKey && MANIFEST_STATES.includes(t.state as TransferState),
+    manifestAvailable: !!t.manifestKey && MANIFEST_STATES.includes(t.state),
     pendingStep: pending,
     nextStates: TRANSFER_TRANSITIONS[t.state as TransferState],
     history: history.map((h) => ({
@@ -263,7 +263,7 @@ export async function manifestFile(actor: Actor, id: string) {
   if (t.state === 'cancelled' || t.state === 'rejected') {
     throw new AppError(409, 'no_manifest', `This transfer was ${t.state}; it has no manifest.`);
   }
-  if (!MANIFEST_STATES.includes(t.state as TransferState)) {
+  if (!MANIFEST_STATES.includes(t.state)) {
     throw new AppError(409, 'manifest_not_ready', 'The manifest is made when the instrument is packed; it is not packed yet.');
   }
   if (!t.manifestKey) {
@@ -482,7 +482,7 @@ async function queueStep(actor: Actor, t: Transfer, to: TransferState, extra: Pa
 
 /** Visible rows first (404 for the unseen), then the permission for the step itself (403). */
 function readableOr404(actor: Actor, t: Transfer) {
-  if (!actor.ability.can('read', asSubject('Transfer', plain(t)) as never)) throw notFound('That transfer');
+  if (!actor.ability.can('read', asSubject('Transfer', plain(t)))) throw notFound('That transfer');
 }
 
 export async function approveTransfer(actor: Actor, id: string, input: { note?: string }) {
@@ -504,7 +504,7 @@ export async function rejectTransfer(actor: Actor, id: string, input: { reason: 
 export async function cancelTransfer(actor: Actor, id: string, input: { reason: string }) {
   const t = await loadForStep(actor, id);
   readableOr404(actor, t);
-  const managerOrOwner = actor.ability.can('update', asSubject('Transfer', plain(t)) as never);
+  const managerOrOwner = actor.ability.can('update', asSubject('Transfer', plain(t)));
   const ownRequest =
     t.requestedByUserId === actor.id && actor.ability.can('request', asSubject('Transfer', { fromShopId: t.fromShopId }) as never);
   if (!managerOrOwner && !ownRequest) throw forbidden('Only the person who asked, a manager of the two shops or the owner can cancel.');
@@ -738,7 +738,7 @@ export async function applyTransferStep(data: TransferStepData, hooks: { afterCo
         await t.update({ state: 'in_transit', handedOverAt: at, departedAt, relayRunId: run?.id ?? null, expectedArrivalAt }, { transaction });
         const fromStage = job.stage;
         const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
-        await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
+        await job.update({ stage: 'in_transit', stageBeforeHold: resume }, { transaction });
         await instrument.update({ status: 'in_transit' }, { transaction });
         events.push({
           networkId, instrumentId: instrument.id, jobId: job.id, shopId: t.fromShopId, userId: data.actorUserId,

@@ -8,6 +8,7 @@ import { AppProviders } from '@/app/providers';
 import { routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import { assignLocation } from '@/lib/browser';
+import { requestUrl } from '../../helpers/request-url';
 
 // A fake fetch is enough here: these tests are about what the client shows for each answer of the
 // API contract; the server side of that contract is tested against the real app elsewhere.
@@ -25,7 +26,7 @@ interface FetchCall {
 function renderApp(path: string, answers: Answers) {
   const calls: FetchCall[] = [];
   const fetchMock = vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-    const url = new URL(String(input), 'http://localhost');
+    const url = requestUrl(input);
     const method = (init.method ?? 'GET').toUpperCase();
     calls.push({ method, path: url.pathname, credentials: init.credentials });
     const entry = answers[`${method} ${url.pathname}`];

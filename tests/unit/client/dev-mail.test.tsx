@@ -6,15 +6,16 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { AppProviders } from '@/app/providers';
 import { routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+import { requestUrl } from '../../helpers/request-url';
 
 // The development mail page only reads `GET /api/dev/mail`; a fake fetch answers it here, while the
 // catcher behind the endpoint is tested against real SMTP elsewhere.
 function renderDevMail(path: string, answer: { status: number; body: unknown }) {
-  const fetchMock = vi.fn(async (input: RequestInfo | URL) => {
-    const { pathname } = new URL(String(input), 'http://localhost');
+  const fetchMock = vi.fn((input: RequestInfo | URL) => {
+    const { pathname } = requestUrl(input);
     const { status, body } =
       pathname === '/api/dev/mail' ? answer : { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } };
-    return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+    return Promise.resolve(new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } }));
   });
   vi.stubGlobal('fetch', fetchMock);
   const router = createMemoryRouter(routes, { initialEntries: [path] });

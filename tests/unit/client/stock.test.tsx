@@ -7,6 +7,7 @@ import { AppProviders } from '@/app/providers';
 import { routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import type { StockPage } from '@/features/stock/types';
+import { requestUrl } from '../../helpers/request-url';
 
 // The stock screen against fixed answers; tests/api/padmaps-stock.test.ts checks the API itself.
 vi.mock('@/lib/browser', () => ({ assignLocation: vi.fn() }));
@@ -51,16 +52,16 @@ function renderStock() {
   const calls: Array<{ method: string; path: string; body?: unknown }> = [];
   vi.stubGlobal(
     'fetch',
-    vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-      const url = new URL(String(input), 'http://localhost');
+    vi.fn((input: RequestInfo | URL, init: RequestInit = {}) => {
+      const url = requestUrl(input);
       const method = (init.method ?? 'GET').toUpperCase();
-      calls.push({ method, path: `${url.pathname}${url.search}`, body: init.body ? JSON.parse(String(init.body)) : undefined });
+      calls.push({ method, path: `${url.pathname}${url.search}`, body: typeof init.body === 'string' ? JSON.parse(init.body) : undefined });
       let body: unknown = { error: { code: 'not_found', message: 'Not found' } };
       let status = 404;
       if (url.pathname === '/api/me') [status, body] = [200, me(technicianRules)];
       if (url.pathname === '/api/stock') [status, body] = [200, page];
       if (method === 'POST' && url.pathname.startsWith('/api/stock/part-transfers')) [status, body] = [201, { created: true, transfer: page.transfers.incoming[0] }];
-      return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+      return Promise.resolve(new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } }));
     }),
   );
   const router = createMemoryRouter(routes, { initialEntries: ['/stock?shop=shop-1'] });

@@ -183,7 +183,7 @@ export function FleetImport({ shop }: FleetImportProps) {
                   value={mapping[field.key] ?? ''}
                   disabled={running}
                   onChange={(e) => {
-                    setMapping({ ...mapping, [field.key as ImportFieldKey]: e.target.value || null });
+                    setMapping({ ...mapping, [field.key]: e.target.value || null });
                     setCheck(null);
                   }}
                 >
