@@ -96,7 +96,8 @@ export default tseslint.config(
     extends: [tseslint.configs.recommendedTypeChecked],
     languageOptions: {
       parserOptions: {
-        projectService: { allowDefaultProject: ['*.js'] },
+        // the three real projects (strict, each with its own globals); the root tsconfig.json is only a solution file
+        project: ['./tsconfig.client.json', './tsconfig.server.json', './tsconfig.tests.json'],
         tsconfigRootDir: import.meta.dirname,
       },
     },

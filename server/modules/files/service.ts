@@ -328,7 +328,7 @@ export async function confirmUpload(actor: Actor, attachmentId: string): Promise
       { where: { networkId: a.networkId, id: a.id, status: 'pending' }, transaction },
     );
     if (count === 0) return false;
-    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[a.tag ?? 'detail'].toLowerCase()} photo` : 'document';
+    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[(a.tag ?? 'detail') as PhotoTag].toLowerCase()} photo` : 'document';
     await HistoryEvent.create(
       {
         networkId: a.networkId,
