@@ -328,7 +328,8 @@ export async function confirmUpload(actor: Actor, attachmentId: string): Promise
       { where: { networkId: a.networkId, id: a.id, status: 'pending' }, transaction },
     );
     if (count === 0) return false;
-    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[(a.tag ?? 'detail') as PhotoTag].toLowerCase()} photo` : 'document';
+    const tag: PhotoTag = a.tag ?? 'detail';
+    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[tag].toLowerCase()} photo` : 'document';
     await HistoryEvent.create(
       {
         networkId: a.networkId,

@@ -76,7 +76,7 @@ function renderScreen(ws: PadMapWorkspace, onSave?: Handler) {
   return { sent };
 }
 
-const cell = (label: string) => screen.getByLabelText(label) as HTMLInputElement;
+const cell = (label: string) => screen.getByLabelText<HTMLInputElement>(label);
 const rowOf = (label: string) => cell(label).closest('tr') as HTMLElement;
 
 beforeEach(() => window.localStorage.clear());
