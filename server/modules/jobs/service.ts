@@ -39,7 +39,6 @@ import {
   mayRecordApproval,
   rolesAtShop,
   type JobState,
-  type MainStage,
 } from '../../../shared/jobs/stage-machine.js';
 import { cautionsFor } from '../../../shared/jobs/cautions.js';
 import {
@@ -743,7 +742,7 @@ export async function addLineItem(actor: Actor, jobId: string, input: LineItemCr
     const job = await editableJob(actor, jobId, transaction);
     const shop = await findShop(actor.networkId, job.shopId, transaction);
     const before = await currentEstimate(job, transaction, shop.taxRateBasisPoints);
-    const last = (await JobLineItem.max('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) as number | null;
+    const last = await JobLineItem.max<number | null, JobLineItem>('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction });
     const position = (last ?? -1) + 1;
     if (input.kind === 'labor') {
       const item = await ServiceCatalogItem.findOne({ where: { networkId: actor.networkId, id: input.catalogItemId, active: true }, transaction });

@@ -9,7 +9,6 @@ import type { GridRow, Preview } from '../pad-map-form';
 
 /** Columns the keyboard moves through, in the order a technician reads them off the caliper. */
 const COLUMNS = ['cupDiameter', 'cupDepth', 'rimDiameter', 'floor', 'padKind'] as const;
-type Column = (typeof COLUMNS)[number];
 const MEASURES: Array<{ field: MeasureField; label: string }> = [
   { field: 'cupDiameter', label: 'cup diameter' },
   { field: 'cupDepth', label: 'cup depth' },
