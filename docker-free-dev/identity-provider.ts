@@ -84,11 +84,12 @@ export async function startIdentityProvider(opts: IdentityProviderOptions): Prom
       rpInitiatedLogout: { enabled: true, logoutSource, postLogoutSuccessSource },
     },
     interactions: { url: (_ctx: unknown, interaction: { uid: string }) => `/interaction/${interaction.uid}` },
-    findAccount: async (_ctx: unknown, sub: string) => {
+    // oidc-provider awaits what each hook returns (these and the page hooks below), so plain values are enough
+    findAccount: (_ctx: unknown, sub: string) => {
       const profile = profileFor(sub);
       return {
         accountId: sub,
-        claims: async () => ({ sub, email: profile.email, email_verified: profile.emailVerified, name: profile.name }),
+        claims: () => ({ sub, email: profile.email, email_verified: profile.emailVerified, name: profile.name }),
       };
     },
     clientBasedCORS: (_ctx: unknown, origin: string) => isLoopbackOrigin(origin),
@@ -307,7 +308,7 @@ function signInPage(uid: string, accounts: IdentityAccount[], error?: string) {
 
 // Signing out ends the whole provider session (logout=yes) and confirms itself, so switching
 // people in development is one click; the button is there for browsers without scripts.
-async function logoutSource(ctx: KoaLikeContext, form: string) {
+function logoutSource(ctx: KoaLikeContext, form: string) {
   const withLogout = form.replace('</form>', '<input type="hidden" name="logout" value="yes"/></form>');
   ctx.type = 'html';
   ctx.body = page(
@@ -320,12 +321,12 @@ async function logoutSource(ctx: KoaLikeContext, form: string) {
   );
 }
 
-async function postLogoutSuccessSource(ctx: KoaLikeContext) {
+function postLogoutSuccessSource(ctx: KoaLikeContext) {
   ctx.type = 'html';
   ctx.body = page('Signed out', '<h1>Signed out</h1><p class="lead">You are signed out of the local identity provider.</p>');
 }
 
-async function renderError(ctx: KoaLikeContext, out: { error?: string; error_description?: string }) {
+function renderError(ctx: KoaLikeContext, out: { error?: string; error_description?: string }) {
   ctx.type = 'html';
   ctx.body = page(
     'Sign-in error',

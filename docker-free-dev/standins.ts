@@ -77,8 +77,8 @@ if (invokedDirectly) {
       await standins.close();
       process.exit(0);
     };
-    process.on('SIGINT', stop);
-    process.on('SIGTERM', stop);
+    process.on('SIGINT', () => void stop());
+    process.on('SIGTERM', () => void stop());
   } catch (err) {
     console.error('Could not start the local stand-ins:', (err as Error).message);
     process.exit(1);

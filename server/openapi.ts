@@ -4,7 +4,7 @@ import { approvalSchema, boardQuerySchema, catalogItemSchema, catalogItemUpdateS
 import { attachmentCreateSchema } from '../shared/files/limits.js';
 import { auditLogQuerySchema, invitationAcceptSchema, invitationCreateSchema, membershipUpdateSchema, peopleQuerySchema, personUpdateSchema, roleAssignmentSchema } from '../shared/schemas/people.js';
 import { closingDayInputSchema, relayRunInputSchema, relayRunQuerySchema, relayRunUpdateSchema, shopInputSchema, shopSkillsSchema, shopUpdateSchema, skillInputSchema, skillUpdateSchema, technicianSkillsSchema } from '../shared/schemas/shops.js';
-import { createCustomerSchema, customerSearchSchema, importBatchSchema, instrumentSearchSchema, intakeSchema, serialCheckSchema, timelineQuerySchema } from '../shared/schemas/registry.js';
+import { heavyCaseSchema, createCustomerSchema, customerSearchSchema, importBatchSchema, instrumentSearchSchema, intakeSchema, serialCheckSchema, timelineQuerySchema } from '../shared/schemas/registry.js';
 import { invoiceQuerySchema, jobListQuerySchema, reportScopeQuerySchema } from '../shared/reports/schemas.js';
 import { padRulesSchema } from '../shared/padmap/rules.js';
 import { savePadMapSchema } from '../shared/padmap/entries.js';
@@ -14,6 +14,8 @@ import { returnToSchema } from './modules/members/routes.js';
 import { listQuery as noticesQuery, preferencesBody as noticePreferencesBody, readAllBody as noticesReadAllBody } from './modules/notifications/routes.js';
 import { suggestionsQuery } from './modules/padmaps/routes.js';
 import { adjustBody as stockAdjustBody, requestBody as partsRequestBody, stockQuery } from './modules/stock/routes.js';
+import { customerDecisionSchema, jobCustomerUpdateSchema } from '../shared/customers/public-page.js';
+import { hazardsSchema } from '../shared/safety/hazards.js';
 
 /**
  * The API described: every route the app registers, with the shared zod schemas its route parses,
@@ -114,6 +116,15 @@ export const API_OPERATIONS: Record<string, Operation> = {
   'GET /api/instruments/serial-check': { tag: 'registry', summary: 'Is this serial already registered (and near misses)', query: serialCheckSchema },
   'POST /api/instruments/import': { tag: 'registry', summary: 'Import a rental fleet', body: importBatchSchema },
   'GET /api/instruments/:id': { tag: 'registry', summary: 'One instrument' },
+  'PATCH /api/instruments/:id/heavy-case': { tag: 'registry', summary: 'Mark whether an instrument travels in a heavy case (lifting caution)', body: heavyCaseSchema },
+  'PUT /api/parts/:partId/hazards': { tag: 'stock', summary: "Set a part's hazard tags (owner)", body: z.object({ hazards: hazardsSchema }) },
+  'POST /api/jobs/:jobId/customer-link': { tag: 'customers', summary: "Issue a private link to the job's customer page (shown once)" },
+  'DELETE /api/jobs/:jobId/customer-link': { tag: 'customers', summary: "Revoke every link to the job's customer page" },
+  'POST /api/jobs/:jobId/estimate/send': { tag: 'customers', summary: 'E-mail the estimate with a PDF and a fresh link' },
+  'PATCH /api/jobs/:jobId/customer': { tag: 'customers', summary: "The job's customer: purchase order, tax-exempt certificate, notices", body: jobCustomerUpdateSchema },
+  'GET /api/jobs/:jobId/claim-ticket.pdf': { tag: 'customers', summary: 'The claim ticket with the QR code and signature line', produces: 'application/pdf' },
+  'GET /api/public/jobs/:token': { tag: 'customers', summary: "The customer's page of a job (the token is the key; rate limited)", access: 'public' },
+  'POST /api/public/jobs/:token/decision': { tag: 'customers', summary: 'The customer approves or declines the estimate (rate limited)', access: 'public', body: customerDecisionSchema },
   'GET /api/instruments/:id/timeline': { tag: 'registry', summary: "An instrument's work history across shops", query: timelineQuerySchema },
   'GET /api/customers': { tag: 'registry', summary: 'Search customers', query: customerSearchSchema },
   'POST /api/customers': { tag: 'registry', summary: 'Add a customer', body: createCustomerSchema },

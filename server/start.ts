@@ -31,9 +31,9 @@ export async function start() {
     const demo = await loadDemoNetwork();
     logger.info(demo.created ? 'demo network loaded' : 'demo network already present');
   }
-  await ensureBucket().catch((err) => logger.warn({ err: err.message }, 'object storage not reachable yet'));
+  await ensureBucket().catch((err: unknown) => logger.warn({ err: err instanceof Error ? err.message : String(err) }, 'object storage not reachable yet'));
   const worker = config.embeddedWorker ? startWorker() : undefined;
-  if (worker) scheduleStartupWork().catch((err) => logger.warn({ err: err.message }, 'startup work not scheduled'));
+  if (worker) scheduleStartupWork().catch((err: unknown) => logger.warn({ err: err instanceof Error ? err.message : String(err) }, 'startup work not scheduled'));
   const app = buildApp();
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(config.port, () => resolve(s));

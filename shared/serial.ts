@@ -7,7 +7,7 @@
 
 // Separators people put into serials that carry no meaning: whitespace, dots, slashes, underscores and
 // every dash-like character a phone keyboard or spreadsheet may substitute for a hyphen.
-const SERIAL_SEPARATORS = /[\s.\/\\_\-\u2010-\u2015\u2212\uFE58\uFE63\uFF0D]+/g;
+const SERIAL_SEPARATORS = /[\s./\\_\-\u2010-\u2015\u2212\uFE58\uFE63\uFF0D]+/g;
 
 /** Upper-cased serial without separators; full-width characters folded to ASCII (NFKC). */
 export function normalizeSerial(serial: string): string {

@@ -15,7 +15,7 @@ const worker = startWorker(Number(process.env.WORKER_CONCURRENCY ?? 8), {
   lockDuration: Number(process.env.WORKER_LOCK_MS) || undefined,
   stalledInterval: Number(process.env.WORKER_STALLED_INTERVAL_MS) || undefined,
 });
-scheduleStartupWork().catch((err) => logger.warn({ err: err.message }, 'startup work not scheduled'));
+scheduleStartupWork().catch((err: unknown) => logger.warn({ err: err instanceof Error ? err.message : String(err) }, 'startup work not scheduled'));
 logger.info({ backend: queueBackendKind() }, 'worker started');
 
 async function stop(signal: string) {

@@ -77,7 +77,7 @@ async function explain(pool: pg.Pool, title: string, statements: string[]) {
         await client.query(sql);
         continue;
       }
-      const { rows } = await client.query(`explain (analyze, buffers) ${sql.replace(/;\s*$/, '')}`);
+      const { rows } = await client.query<{ 'QUERY PLAN': string }>(`explain (analyze, buffers) ${sql.replace(/;\s*$/, '')}`);
       explains.push('```sql\n' + sql.trim() + '\n```\n```\n' + rows.map((r) => r['QUERY PLAN']).join('\n') + '\n```\n');
     }
   } finally {
@@ -177,7 +177,7 @@ async function main() {
   const board = [];
   for (const query of boardQueries) {
     const statements = await statementsOf(() => jobBoard(actor, boardQuerySchema.parse(query)));
-    board.push({ path: `/api/jobs?${new URLSearchParams(query)}`, statements });
+    board.push({ path: `/api/jobs?${new URLSearchParams(query).toString()}`, statements });
   }
 
   // --- explain one of each

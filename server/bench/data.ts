@@ -71,7 +71,8 @@ async function main() {
 
   const pool = new pg.Pool({ connectionString: BENCH_DATABASE_URL, max: 2 });
   const db = await pool.connect();
-  const q = (sql: string, params: unknown[] = []) => db.query(sql, params);
+  // rows come back as text or numbers; every use below reads them as such
+  const q = (sql: string, params: unknown[] = []) => db.query<Record<string, string>>(sql, params);
   await q(`set synchronous_commit = off`);
   await q(`set maintenance_work_mem = '512MB'`);
   await q(`set work_mem = '128MB'`);
@@ -154,7 +155,7 @@ async function main() {
     const {
       rows: [{ n: users }],
     } = await q(`select count(*)::int as n from users where network_id = $1`, [networkId]);
-    counts.users += users;
+    counts.users += Number(users);
 
     const C = Math.max(20, Math.round(n / 20));
     await q(
@@ -240,7 +241,7 @@ async function main() {
       const {
         rows: [{ n: open }],
       } = await q(`select count(*)::int as n from jobs where network_id = $1 and shop_id = bench_uuid($2 || ':shop:1') and stage <> 'released'`, [networkId, slug]);
-      counts.openJobsBusiestShop = open;
+      counts.openJobsBusiestShop = Number(open);
     }
     step(`${slug}: ${J.toLocaleString('en-US')} jobs${openBusy ? `, ${counts.openJobsBusiestShop.toLocaleString('en-US')} open at shop 1` : ''}`);
 
@@ -282,7 +283,7 @@ async function main() {
          from users u, generate_series(1, 20) k where u.network_id = $1`,
       [networkId],
     );
-    counts.notifications += users * 20;
+    counts.notifications += Number(users) * 20;
   }
 
   step(`building ${indexes.length} secondary indexes`);
@@ -321,7 +322,7 @@ async function main() {
     counts,
     network: { id: ids.network_id, slug: large, shops: NETWORKS[0].shops },
     busiestShop: { id: ids.shop_id, openJobs: counts.openJobsBusiestShop },
-    historyInstrument: { id: ids.instrument_id, events: ids.events },
+    historyInstrument: { id: ids.instrument_id, events: Number(ids.events) },
     people,
   };
   fs.mkdirSync(path.dirname(FIXTURES_PATH), { recursive: true });

@@ -26,7 +26,7 @@ const CONNECTIONS = Number(argValue('connections', '8'));
 /** The session row's version: xmin changes whenever the row is written. */
 async function sessionRowVersion(pool: pg.Pool, cookie: string): Promise<string> {
   const sid = decodeURIComponent(cookie.split('=')[1]).slice(2).split('.')[0];
-  const { rows } = await pool.query(`select xmin::text as v from session where sid = $1`, [sid]);
+  const { rows } = await pool.query<{ v: string }>(`select xmin::text as v from session where sid = $1`, [sid]);
   return rows[0]?.v ?? 'gone';
 }
 

@@ -37,7 +37,7 @@ export function accessibleWhere(ability: AppAbility, action: Action, subject: Su
   return rulesToCondition<AppAbility, WhereOptions, WhereOptions>(
     ability.rulesFor(action, subject),
     (rule) => {
-      const where = conditionToWhere((rule.conditions ?? {}) as Record<string, unknown>);
+      const where = conditionToWhere(rule.conditions ?? {});
       return rule.inverted ? { [Op.not]: where } : where;
     },
     {
@@ -51,5 +51,5 @@ export function accessibleWhere(ability: AppAbility, action: Action, subject: Su
 /** Single-row check against the loaded row; throws 403 with a plain message. */
 export function assertCan(ability: AppAbility, action: Action, subject: SubjectName, row?: Record<string, unknown>, message?: string) {
   const target = row ? asSubject(subject, { ...row }) : subject;
-  if (!ability.can(action, target as never)) throw forbidden(message);
+  if (!ability.can(action, target)) throw forbidden(message);
 }

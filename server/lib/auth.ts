@@ -1,4 +1,5 @@
 import { logger } from './logger.js';
+import { promisify } from 'node:util';
 import type { RequestHandler } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
@@ -53,7 +54,7 @@ export interface Actor {
 }
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
+  // eslint-disable-next-line @typescript-eslint/no-namespace -- adding `actor` to Express's own Request type goes through its namespace
   namespace Express {
     interface Request {
       actor?: Actor;
@@ -117,7 +118,7 @@ export function sessionLifetime(): RequestHandler {
     // a signed-in session without a sign-in time predates the limit: it ends like an old one
     if (now - signedInAt > SESSION_MAX_AGE_MS || now - touchedAt > SESSION_IDLE_MS) {
       // regenerate, not destroy: the old row is deleted and the request goes on with an empty session
-      await new Promise<void>((resolve, reject) => s.regenerate((err) => (err ? reject(err) : resolve())));
+      await promisify(s.regenerate.bind(s))();
       return next();
     }
     if (now - touchedAt >= SESSION_TOUCH_EVERY_MS) s.touchedAt = now;

@@ -47,7 +47,7 @@ export function createQueue(name = QUEUE_NAME, opts: Omit<QueueOptions, 'connect
   const b = backend();
   // both backends' classes share one API; TypeScript cannot unify their generic constructors
   const QueueClass = b.Queue as unknown as typeof RedisQueue;
-  return new QueueClass(name, { ...opts, connection: b.connection } as never);
+  return new QueueClass(name, { ...opts, connection: b.connection });
 }
 
 export function createWorker<D = unknown, R = unknown>(
@@ -57,7 +57,7 @@ export function createWorker<D = unknown, R = unknown>(
 ) {
   const b = backend();
   const WorkerClass = b.Worker as unknown as typeof RedisWorker;
-  return new WorkerClass<D, R>(name, processor, { concurrency: 4, ...opts, connection: b.connection } as never);
+  return new WorkerClass<D, R>(name, processor, { concurrency: 4, ...opts, connection: b.connection });
 }
 
 let shared: RedisQueue | undefined;

@@ -6,6 +6,7 @@ import { badRequest } from './errors.js';
  * text column and fails the whole statement) and a lone UTF-16 surrogate (no character at all; the
  * database driver would silently store U+FFFD in its place, so what was saved is not what was sent).
  */
+// eslint-disable-next-line no-control-regex -- NUL is exactly the character this guard looks for
 const UNSTORABLE = /\u0000|\p{Surrogate}/u;
 
 const MESSAGE = 'Contains a character that cannot be stored (a NUL or a broken unicode character).';

@@ -45,7 +45,7 @@ export interface Manifest {
 const sha256 = (data: Buffer) => createHash('sha256').update(data).digest('hex');
 
 /** PostgreSQL's own client programs (Debian's postgresql package), found the way docker-free-dev/postgres.sh finds them. */
-export async function pgBin(name: 'pg_dump' | 'pg_restore'): Promise<string> {
+export function pgBin(name: 'pg_dump' | 'pg_restore'): string {
   const candidates = ['/usr/lib/postgresql/15/bin', ...(fs.existsSync('/usr/lib/postgresql') ? fs.readdirSync('/usr/lib/postgresql').sort().reverse().map((v) => `/usr/lib/postgresql/${v}/bin`) : [])];
   const found = candidates.map((d) => path.join(d, name)).find((p) => fs.existsSync(p));
   if (!found) throw new Error(`${name} is not installed (Debian: apt-get install postgresql-client-15)`);
@@ -107,7 +107,7 @@ export async function backup(target: ArchiveTarget, outFile: string): Promise<Ma
     // one snapshot; counts read inside the same snapshot would need a second session, so they are read
     // right after and checked against the restored database (a backup of a busy system may differ by the
     // rows written in between, which the dump does not hold; the restore check compares with the dump)
-    await run(await pgBin('pg_dump'), ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${target.databaseUrl}`], { maxBuffer: 64 * 1024 * 1024 });
+    await run(pgBin('pg_dump'), ['--format=custom', '--no-owner', '--no-privileges', `--file=${dumpFile}`, `--dbname=${target.databaseUrl}`], { maxBuffer: 64 * 1024 * 1024 });
     const dump = fs.readFileSync(dumpFile);
     const tables = await tableCounts(target.databaseUrl);
 
@@ -174,7 +174,7 @@ export async function restore(target: ArchiveTarget, archive: string, options: {
 
     // the extensions (pg_trgm, pgcrypto) are the superuser's to create (docker-free-dev/postgres.sh does);
     // restore every other entry of the dump
-    const restoreBin = await pgBin('pg_restore');
+    const restoreBin = pgBin('pg_restore');
     const { stdout: list } = await run(restoreBin, ['--list', dumpFile], { maxBuffer: 64 * 1024 * 1024 });
     const listFile = path.join(work, 'restore.list');
     fs.writeFileSync(listFile, list.split('\n').filter((line) => !/ EXTENSION /.test(line)).join('\n'));

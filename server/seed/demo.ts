@@ -481,9 +481,9 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     }),
     t,
   );
-  const memberships = [
+  const memberships: Array<{ user: string; shop: ShopCode | null; role: Role }> = [
     ...people.flatMap((p, i) => (DEMO_ROLES[i] ?? []).map((r) => ({ user: p.key, shop: r.shop, role: r.role }))),
-    ...STAFF.map((s) => ({ user: s.key, shop: s.shop as ShopCode | null, role: 'technician' as Role })),
+    ...STAFF.map((s) => ({ user: s.key, shop: s.shop, role: 'technician' as const })),
   ];
   await Membership.bulkCreate(
     memberships.map((m) => ({ networkId, userId: userId[m.user], shopId: m.shop ? shopId[m.shop] : null, role: m.role })),
@@ -566,7 +566,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
       customerId[c.key] = randomUUID();
       return {
         id: customerId[c.key], networkId, kind: c.kind, name: c.name, contactName: c.contactName, email: c.email,
-        phone: c.phone, homeShopId: shopId[c.shop as ShopCode],
+        phone: c.phone, homeShopId: shopId[c.shop],
         notes: c.kind === 'fleet' ? 'The network’s own rental instruments.' : null,
       };
     }),
@@ -907,7 +907,7 @@ async function createDemoNetwork(transaction: Transaction, now: Date): Promise<s
     const id = randomUUID();
     padMapRows.push({
       id, networkId, instrumentId: instrumentId.get(key)!, jobId: visit.id, shopId: shopId[visit.shop], unitSystem: 'mm',
-      entries: entries as unknown as Array<Record<string, unknown>>, results: result.keys as unknown as Array<Record<string, unknown>>,
+      entries, results: result.keys as unknown as Array<Record<string, unknown>>,
       createdByUserId: by, createdAt: at, updatedAt: at,
     });
     padMapEvents.push({

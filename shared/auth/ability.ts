@@ -42,7 +42,7 @@ export function isOwner(user: AbilityUser): boolean {
 export function defineRulesFor(user: AbilityUser): AppRule[] {
   const rules: AppRule[] = [];
   const can = (action: Action | Action[], subject: SubjectName | SubjectName[], conditions?: MongoQuery) =>
-    rules.push({ action, subject, ...(conditions ? { conditions } : {}) } as AppRule);
+    rules.push({ action, subject, ...(conditions ? { conditions } : {}) });
 
   // Everyone signed in reads and marks their own notices.
   can(['read', 'update'], 'Notification', { userId: user.id });

@@ -180,6 +180,6 @@ export function checkMove(job: JobState, to: JobStage, roles: readonly Role[], v
     return { ok: false, reason: move.blockedBy[0], message: GUARD_MESSAGES[move.blockedBy[0]] };
   }
   // entering a hold remembers where to come back to; leaving one (or any main move) clears it
-  const stageBeforeHold = isHold(to) ? (isHold(job.stage) ? job.stageBeforeHold : (job.stage as MainStage)) : null;
+  const stageBeforeHold = isHold(to) ? (isHold(job.stage) ? job.stageBeforeHold : job.stage) : null;
   return { ok: true, to, stageBeforeHold };
 }

@@ -138,16 +138,16 @@ export const PAD_KEYS_BY_FAMILY: Partial<Record<InstrumentFamily, PadKey[]>> = {
 };
 
 /** The keys a pad map of this family starts with; brass and unlisted families start empty. */
-export function padKeysFor(family: InstrumentFamily | string): PadKey[] {
+export function padKeysFor(family: string): PadKey[] {
   return PAD_KEYS_BY_FAMILY[family as InstrumentFamily] ?? [];
 }
 
 /** Families that play on pads; the pad map screen is offered for these. */
-export function hasPadKeys(family: InstrumentFamily | string): boolean {
+export function hasPadKeys(family: string): boolean {
   return padKeysFor(family).length > 0;
 }
 
 /** A key's display name: the family list's trade name, or what the technician typed for an extra key. */
-export function keyName(family: InstrumentFamily | string, keyId: string, typedName?: string | null): string {
+export function keyName(family: string, keyId: string, typedName?: string | null): string {
   return padKeysFor(family).find((key) => key.id === keyId)?.name ?? typedName ?? keyId;
 }

@@ -57,7 +57,7 @@ export const DEFAULT_PAD_RULES: PadRules = Object.freeze({
   repadBaseHours: 1.5,
   repadHoursPerKey: 0.25,
   maxRadialClearanceMm: 1.0,
-}) as PadRules;
+});
 
 const mm = (min: number, max: number, label: string) =>
   z

@@ -1,5 +1,5 @@
 import { tz } from '@date-fns/tz';
-import { addDays, differenceInCalendarDays, format, getISODay, startOfDay } from 'date-fns';
+import { addDays, differenceInCalendarDays, getISODay, startOfDay } from 'date-fns';
 import type { IsoWeekday } from '../domain.js';
 import { publicHolidays } from '../jobs/promised-date.js';
 import { localDateIn } from '../time/calendar-date.js';

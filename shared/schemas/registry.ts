@@ -98,7 +98,7 @@ export const assetTagField = z.preprocess(
     .string()
     .trim()
     .max(40, 'An asset tag has at most 40 characters.')
-    .regex(/^[A-Za-z0-9][A-Za-z0-9 ._\/-]*$/, 'An asset tag uses letters, digits, spaces, dots, dashes and slashes.')
+    .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/-]*$/, 'An asset tag uses letters, digits, spaces, dots, dashes and slashes.')
     .optional(),
 );
 
@@ -158,7 +158,7 @@ export const customerInputSchema = z.object({
       .string()
       .trim()
       .max(40, 'A phone number has at most 40 characters.')
-      .regex(/^[+()\d][\d\s().\-\/]*$/, 'Write the phone number with digits, spaces and + ( ) - only.')
+      .regex(/^[+()\d][\d\s().\-/]*$/, 'Write the phone number with digits, spaces and + ( ) - only.')
       .optional(),
   ),
   address: optionalText(300, 'The address'),

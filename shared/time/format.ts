@@ -24,7 +24,7 @@ function formatter(timeZone: string, withTime: boolean): Intl.DateTimeFormat {
       month: 'short',
       year: 'numeric',
       ...(withTime ? { hour: '2-digit', minute: '2-digit', hourCycle: 'h23', timeZoneName: 'short' } : {}),
-    } as Intl.DateTimeFormatOptions);
+    });
     cache.set(key, f);
   }
   return f;

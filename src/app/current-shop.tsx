@@ -45,11 +45,13 @@ export function CurrentShopProvider({ shops, ownShopIds = [], children }: { shop
   const [searchParams, setSearchParams] = useSearchParams();
   const fromUrl = searchParams.get(SHOP_SEARCH_PARAM);
 
+  // the ids arrive as a new array on each render; their content is what matters
+  const ownShopKey = ownShopIds.join(',');
   const currentShop = useMemo(() => {
+    const own = ownShopKey.split(',');
     const byId = (id: string | null) => (id ? shops.find((shop) => shop.id === id) : undefined);
-    return byId(fromUrl) ?? byId(readRemembered()) ?? shops.find((shop) => ownShopIds.includes(shop.id)) ?? shops[0];
-    // the ids arrive as a new array on each render; their content is what matters
-  }, [shops, fromUrl, ownShopIds.join(',')]);
+    return byId(fromUrl) ?? byId(readRemembered()) ?? shops.find((shop) => own.includes(shop.id)) ?? shops[0];
+  }, [shops, fromUrl, ownShopKey]);
 
   // The shop this tab last settled on, read live (a ref, not a render's closure): the effect below may be
   // one of an earlier render that runs only after the person has already picked another shop.

@@ -159,7 +159,7 @@ function withField(world: World, built: BuiltRequest, field: IdField, d: Foreign
     copy.path = copy.path.replace(ownId, value);
     return copy;
   }
-  if (d.with) copy.body = { ...((copy.body as object) ?? {}), ...d.with };
+  if (d.with) copy.body = { ...(copy.body ?? {}), ...d.with };
   if (where === 'query') {
     copy.query = { ...(copy.query ?? {}), [path.join('.')]: value };
     return copy;

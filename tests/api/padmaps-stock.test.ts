@@ -76,7 +76,7 @@ describe('stock and parts between shops', () => {
     expect(row.source).toMatchObject({ shopId: shopB.id, shopName: 'Seattle bench', free: 2, coversAll: true, relayRun: true });
     expect(res.body.rows.every((r: { shortage: number; belowReorderPoint: boolean }) => r.shortage > 0 || r.belowReorderPoint)).toBe(true);
     expect(res.body.totals.short).toBe(1);
-    expect(res.body.can).toEqual({ update: false, pack: false, request: true, receive: true });
+    expect(res.body.can).toEqual({ update: false, pack: false, request: true, receive: true, setHazards: false });
 
     const all = await request(app).get('/api/stock').query({ shopId: shopA.id, kind: 'pad', q: 'PAD-S-3' }).set('Cookie', cookies.techA).expect(200);
     expect(all.body.rows.map((r: { sku: string }) => r.sku)).toEqual(['PAD-S-30.0', 'PAD-S-30.5', 'PAD-S-31.0', 'PAD-S-31.5', 'PAD-S-32.0']);

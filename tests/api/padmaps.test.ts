@@ -87,7 +87,7 @@ describe('pad maps API', () => {
       firstMapId = res.body.saved.padMapId;
       const stored = await PadMap.findOne({ where: { networkId, id: firstMapId } });
       expect(stored).toMatchObject({ instrumentId: instrument.id, jobId: job.id, shopId: shopA.id, unitSystem: 'mm' });
-      const lowCs = (stored!.entries as Array<Record<string, unknown>>).find((e) => e.keyId === 'low_cs');
+      const lowCs = stored!.entries.find((e) => e.keyId === 'low_cs');
       expect(lowCs).toMatchObject({ cupDiameterMm: 30.48, cupDepthMm: 3.5, typed: { cupDiameter: '1.200in', cupDepth: '3.5' } });
       const results = stored!.results as Array<Record<string, unknown>>;
       expect(results.map((r) => [r.keyId, r.padDiameterMm, r.stemHeightMm, r.status])).toEqual([

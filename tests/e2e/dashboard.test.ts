@@ -62,7 +62,7 @@ describe('browser: dashboard, overdue list, CSV export, accessibility', { timeou
 
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: /Download CSV/ }).click()]);
     expect(download.suggestedFilename()).toMatch(/^benchrelay-overdue-all-shops-\d{4}-\d{2}-\d{2}\.csv$/);
-    const csv = fs.readFileSync((await download.path())!, 'utf8');
+    const csv = fs.readFileSync(await download.path(), 'utf8');
     const lines = csv.trimEnd().split('\r\n');
     expect(lines[0]).toBe('job_number,shop,stage,family,maker,model,serial,customer,promised_on,days_late,assignee');
     expect(lines).toHaveLength(shown + 1);
@@ -93,7 +93,7 @@ describe('browser: dashboard, overdue list, CSV export, accessibility', { timeou
     await page.getByLabel('Released to (inclusive)').fill(to);
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download invoice CSV' }).click()]);
     expect(download.suggestedFilename()).toMatch(/^benchrelay-invoices-/);
-    const csv = fs.readFileSync((await download.path())!, 'utf8');
+    const csv = fs.readFileSync(await download.path(), 'utf8');
     const lines = csv.trimEnd().split('\r\n');
     expect(lines[0].startsWith('job_number,released_on,shop_code,')).toBe(true);
     expect(lines.length).toBeGreaterThan(10);

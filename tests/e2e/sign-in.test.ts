@@ -26,7 +26,6 @@ describe('browser: sign in and see my shops', () => {
     const page = await browser.newPage();
     const owner = demoPeople[0];
     await signInInBrowser(page, app.url, new RegExp(owner.name));
-    await expect(page.getByRole('heading', { name: 'Your shops' })).toBeTruthy();
     await page.getByRole('heading', { name: 'Your shops' }).waitFor();
     for (const city of ['Seattle', 'Portland', 'Sacramento', 'Denver', 'Chicago']) {
       await page.getByRole('heading', { name: `Harborline ${city}` }).waitFor();

@@ -115,7 +115,7 @@ describe('browser: a regional manager sends a baritone saxophone to another shop
     // pick the job from Seattle's open jobs
     const jobSelect = page.getByLabel('Job', { exact: true });
     const option = await jobSelect.locator('option', { hasText: serial }).getAttribute('value');
-    await jobSelect.selectOption(option!);
+    await jobSelect.selectOption(option);
     await page.getByRole('button', { name: 'Show where it could go' }).click();
 
     // the ranking: Portland recommended, with its reasons; the caution for a heavy case

@@ -40,7 +40,7 @@ export async function makeUser(networkId: string, roles: Array<{ shopId: string 
 
 /** The next job number of a network, as the app numbers jobs (max + 1), so the two never collide. */
 async function nextJobNumber(networkId: string): Promise<number> {
-  const last = (await Job.max('number', { where: { networkId } })) as number | null;
+  const last = await Job.max<number | null, Job>('number', { where: { networkId } });
   return (last ?? 0) + 1;
 }
 
@@ -54,7 +54,7 @@ export async function makeInstrumentWithJob(
     networkId,
     family: over.family ?? 'alto_saxophone',
     maker: over.maker ?? 'Testmaker',
-    model: 'T-1',
+    model: 'Testmodel',
     serial: over.serial ?? `SN-${uniq()}`,
     ownerKind: 'rental_fleet',
     currentShopId: shopId,

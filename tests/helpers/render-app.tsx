@@ -4,6 +4,7 @@ import { vi, beforeAll } from 'vitest';
 import { AppProviders } from '@/app/providers';
 import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+import { requestUrl } from './request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -27,7 +28,7 @@ export function renderApp(path: string, answers: Answers) {
   vi.stubGlobal(
     'fetch',
     vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-      const url = new URL(String(input), 'http://localhost');
+      const url = requestUrl(input);
       const method = (init.method ?? 'GET').toUpperCase();
       const body = typeof init.body === 'string' ? JSON.parse(init.body) : undefined;
       sent.push({ method, path: url.pathname, search: url.search, body });

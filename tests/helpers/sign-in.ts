@@ -33,7 +33,7 @@ export async function signInFollowing(app: Express, email: string, returnTo?: st
     .expect(302);
   let appCookie = cookieHeader(start.headers['set-cookie']) || account.cookie || '';
   const jar = new Map<string, string>(); // the provider's cookies
-  let url = new URL(start.headers.location as string);
+  let url = new URL(start.headers.location);
   let callback: URL | undefined;
 
   for (let hop = 0; hop < 10 && !callback; hop++) {
@@ -69,7 +69,7 @@ export async function signInFollowing(app: Express, email: string, returnTo?: st
   const done = await request(app).get(callback.pathname + callback.search).set('Cookie', appCookie);
   if (done.status !== 302) throw new Error(`callback answered ${done.status}`);
   appCookie = cookieHeader(done.headers['set-cookie']) || appCookie;
-  return { cookie: appCookie, location: done.headers.location as string };
+  return { cookie: appCookie, location: done.headers.location };
 }
 
 function cookieHeader(setCookie: string[] | string | undefined): string {

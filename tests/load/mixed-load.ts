@@ -272,7 +272,7 @@ function runKind(kind: Kind, seconds: number): Promise<KindResult> {
         timeout: 30,
       } as autocannon.Options,
       (err, result) => {
-        if (err) return reject(err);
+        if (err) return reject(err instanceof Error ? err : new Error(String(err)));
         resolve({ name: kind.name, latencies, requests: result.requests.total, errors: result.errors, timeouts: result.timeouts, non2xx: result.non2xx, sample });
       },
     );

@@ -1,4 +1,4 @@
-import { TEST_PORTS, TEST_DATA_DIR } from '../helpers/test-env.js';
+import { TEST_PORTS } from '../helpers/test-env.js';
 import net from 'node:net';
 import * as client from 'openid-client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';

@@ -9,6 +9,7 @@ import { processJob, processors } from '../../workers/processors.js';
 describe('queue processors', () => {
   it('registers exactly the jobs the app enqueues, without the old unused send-email', () => {
     expect(Object.keys(processors).sort()).toEqual([
+      'customer-pickup-reminders',
       'deliver-outbox',
       'expire-upload',
       'make-thumbnail',

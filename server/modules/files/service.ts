@@ -6,7 +6,7 @@ import { Op } from 'sequelize';
 import { Attachment, Instrument, Job, User, sequelize } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { appendHistory } from '../registry/service.js';
+import { appendHistory } from '../registry/index.js';
 import { AppError, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { logger } from '../../lib/logger.js';
 import { enqueue } from '../../lib/queue-jobs.js';
@@ -105,13 +105,13 @@ async function toDto(actor: Actor, a: Attachment, jobNumber: number | null): Pro
     createdAt: new Date(a.createdAt).toISOString(),
     url: stored && photo ? await signedGet(a.objectKey, VIEW_URL_SECONDS) : null,
     thumbnailUrl: stored && photo && a.thumbnailKey ? await signedGet(a.thumbnailKey, VIEW_URL_SECONDS) : null,
-    canDelete: actor.ability.can('delete', subject('Attachment', rowOf(a)) as never),
+    canDelete: actor.ability.can('delete', subject('Attachment', rowOf(a))),
   };
 }
 
 async function readableJob(actor: Actor, jobId: string) {
   const job = await Job.findOne({ where: { networkId: actor.networkId, id: jobId } });
-  if (!job || !actor.ability.can('read', subject('Job', job.get({ plain: true }) as Record<string, unknown>) as never)) {
+  if (!job || !actor.ability.can('read', subject('Job', job.get({ plain: true }) as Record<string, unknown>))) {
     throw notFound('That job');
   }
   return job;
@@ -329,7 +329,8 @@ export async function confirmUpload(actor: Actor, attachmentId: string): Promise
       { where: { networkId: a.networkId, id: a.id, status: 'pending' }, transaction },
     );
     if (count === 0) return false;
-    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[(a.tag ?? 'detail') as PhotoTag].toLowerCase()} photo` : 'document';
+    const tag: PhotoTag = a.tag ?? 'detail';
+    const what = a.kind === 'photo' ? `${PHOTO_TAG_LABELS[tag].toLowerCase()} photo` : 'document';
     await appendHistory(
       {
         networkId: a.networkId,
@@ -426,7 +427,7 @@ export async function listJobAttachments(actor: Actor, jobId: string): Promise<{
 /** Every stored photo of an instrument across its visits, for the before/after view on its page. */
 export async function listInstrumentPhotos(actor: Actor, instrumentId: string): Promise<{ attachments: AttachmentDto[] }> {
   const instrument = await Instrument.findOne({ where: { networkId: actor.networkId, id: instrumentId } });
-  if (!instrument || !actor.ability.can('read', subject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>) as never)) {
+  if (!instrument || !actor.ability.can('read', subject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>))) {
     throw notFound('That instrument');
   }
   const where = readableAttachmentsWhere(actor);
@@ -445,7 +446,7 @@ export async function listInstrumentPhotos(actor: Actor, instrumentId: string): 
 /** A short-lived link that downloads the file under a readable name. */
 export async function downloadLink(actor: Actor, attachmentId: string): Promise<{ url: string; expiresAt: string }> {
   const a = await findAttachment(actor, attachmentId);
-  if (!actor.ability.can('read', subject('Attachment', rowOf(a)) as never)) throw notFound('That file');
+  if (!actor.ability.can('read', subject('Attachment', rowOf(a)))) throw notFound('That file');
   if (a.status !== 'stored') throw conflict('This file is not stored yet.');
   const job = a.jobId ? await Job.findOne({ where: { networkId: actor.networkId, id: a.jobId } }) : null;
   const ext = EXTENSION_BY_TYPE[a.contentType as PhotoType | DocumentType];
@@ -459,7 +460,7 @@ export async function downloadLink(actor: Actor, attachmentId: string): Promise<
 /** Removes the row and its objects (the file and its thumbnail). */
 export async function deleteAttachment(actor: Actor, attachmentId: string): Promise<void> {
   const a = await findAttachment(actor, attachmentId);
-  if (!actor.ability.can('read', subject('Attachment', rowOf(a)) as never)) throw notFound('That file');
+  if (!actor.ability.can('read', subject('Attachment', rowOf(a)))) throw notFound('That file');
   assertCan(actor.ability, 'delete', 'Attachment', rowOf(a), 'You cannot remove this file.');
   const keys = [a.objectKey, a.thumbnailKey ?? thumbnailKeyFor(a.objectKey), uploadKeyFor(a.objectKey)];
   await sequelize.transaction(async (transaction) => {

@@ -25,7 +25,7 @@ import {
 import { hashCustomerToken, issueLinkToken, queueEstimateRequest, shopAddress } from './customer-mail.js';
 import { applyStageMove, currentEstimate, jobDetail, linkStillOpen, readableJob, recordHistory, rolesFor } from './service.js';
 import type { JobDetail } from '../../../shared/jobs/dto.js';
-import { customerViewById } from '../registry/service.js';
+import { customerViewById } from '../registry/index.js';
 
 /**
  * The customer's side of a job: the front desk makes, sends and revokes private links; the customer opens
@@ -38,7 +38,7 @@ import { customerViewById } from '../registry/service.js';
 
 async function deskJob(actor: Actor, jobId: string, transaction: Transaction) {
   const job = await readableJob(actor, jobId, { transaction, lock: true });
-  assertCan(actor.ability, 'update', 'Job', job.get({ plain: true }) as never, 'You cannot change jobs at this shop.');
+  assertCan(actor.ability, 'update', 'Job', job.get({ plain: true }), 'You cannot change jobs at this shop.');
   if (!mayRecordApproval(rolesFor(actor, job.shopId))) throw forbidden('The front desk or a manager deals with the customer’s link.');
   if (job.stage === 'released') throw conflict('This job has been released.');
   return job;
@@ -119,7 +119,7 @@ export async function updateJobCustomer(actor: Actor, jobId: string, input: JobC
  */
 export async function claimTicketPdf(actor: Actor, jobId: string): Promise<{ number: number; pdf: Buffer }> {
   const job = await readableJob(actor, jobId);
-  assertCan(actor.ability, 'update', 'Job', job.get({ plain: true }) as never, 'You cannot print tickets for jobs at this shop.');
+  assertCan(actor.ability, 'update', 'Job', job.get({ plain: true }), 'You cannot print tickets for jobs at this shop.');
   const where = { networkId: job.networkId };
   const [shop, instrument, customer, photoCount] = await Promise.all([
     Shop.findOne({ where: { ...where, id: job.shopId } }),
@@ -271,7 +271,7 @@ async function buildView(job: Job, transaction?: Transaction): Promise<PublicJob
               method: HOW_FOR_CUSTOMER[job.estimateApprovalMethod as EstimateApprovalMethod],
             }
           : null,
-      declinedAt: declinedLatest ? formatDateTime(latestDecision!.decidedAt, here.timeZone) : null,
+      declinedAt: declinedLatest ? formatDateTime(latestDecision.decidedAt, here.timeZone) : null,
       canDecide: (status === 'awaiting' || status === 'needs_reapproval' || status === 'declined') && DECIDABLE.includes(job.stage),
     },
   };

@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { Customer, CustomerLink, Instrument, Job, JobLineItem, OutboxMessage, Shop } from '../../lib/models.js';
-import { queueEmail } from '../notifications/service.js';
+import { queueEmail } from '../notifications/index.js';
 import { INSTRUMENT_FAMILY_LABELS } from '../../../shared/domain.js';
 import { estimateTotals, formatBasisPoints, lineTotalCents, type EstimateLine } from '../../../shared/jobs/estimate.js';
 import { formatCents } from '../../../shared/money.js';

@@ -20,19 +20,18 @@ import {
 } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
-import { appendHistory, appendHistoryMany, customerViewById, setInstrumentWhereabouts, visibleCustomerNames } from '../registry/service.js';
+import { appendHistory, appendHistoryMany, customerViewById, setInstrumentWhereabouts, visibleCustomerNames } from '../registry/index.js';
 import { AppError, badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
 import { INSTRUMENT_FAMILY_LABELS, JOB_STAGE_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type Role } from '../../../shared/domain.js';
 import {
   estimateTotals,
-  formatBasisPoints,
   laborHours,
   lineTotalCents,
   type EstimateLine,
   type EstimateTotals,
 } from '../../../shared/jobs/estimate.js';
 import { formatCents } from '../../../shared/money.js';
-import { closedDaysOf } from '../networks/service.js';
+import { closedDaysOf } from '../networks/index.js';
 import { addOpeningDays, formatCalendarDate, isOverdue, localDate, ShopCalendarError } from '../../../shared/jobs/promised-date.js';
 import {
   allowedMoves,
@@ -42,7 +41,6 @@ import {
   mayRecordApproval,
   rolesAtShop,
   type JobState,
-  type MainStage,
 } from '../../../shared/jobs/stage-machine.js';
 import { cautionsFor, isHeavyCase, normaliseHazards, type Hazard } from '../../../shared/safety/hazards.js';
 import { CUSTOMER_LINK_DAYS_AFTER_RELEASE } from '../../../shared/customers/public-page.js';
@@ -73,7 +71,7 @@ import type {
   PersonRef,
   TimeLogDto,
 } from '../../../shared/jobs/dto.js';
-import { notify, peopleAt } from '../notifications/service.js';
+import { notify, peopleAt } from '../notifications/index.js';
 import { queueCustomerNotice, queueEstimateRequest } from './customer-mail.js';
 
 /**
@@ -107,7 +105,7 @@ async function findShop(networkId: string, shopId: string, transaction?: Transac
 export async function readableJob(actor: Actor, jobId: string, options: { transaction?: Transaction; lock?: boolean } = {}) {
   const job = await findJob(actor, jobId, options);
   // a job the person may not read answers like a missing one, so its existence does not leak
-  if (!actor.ability.can('read', subject('Job', asRow(job)) as never)) throw notFound('That job');
+  if (!actor.ability.can('read', subject('Job', asRow(job)))) throw notFound('That job');
   return job;
 }
 
@@ -422,8 +420,8 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
   const hazards = jobHazards(items, tags, heavyCase);
   const row = asRow(job);
   const roles = rolesFor(actor, job.shopId);
-  const canUpdate = actor.ability.can('update', subject('Job', row) as never);
-  const canMove = actor.ability.can('move_stage', subject('Job', row) as never);
+  const canUpdate = actor.ability.can('update', subject('Job', row));
+  const canMove = actor.ability.can('move_stage', subject('Job', row));
   const totals = estimateTotals(items.map(toEstimateLine), shop.taxRateBasisPoints);
   const needsReapproval = estimateNeedsReapproval(job, totals.totalCents);
   const moves = canMove ? allowedMoves(jobState(job, needsReapproval), roles) : [];
@@ -529,7 +527,7 @@ export async function jobDetail(actor: Actor, jobId: string): Promise<JobDetail>
       update: canUpdate,
       moveStage: canMove && moves.length > 0,
       recordApproval: canUpdate && mayRecordApproval(roles) && !['intake', 'released'].includes(job.stage),
-      editEstimate: actor.ability.can('edit_estimate', subject('Job', row) as never) && !isEstimateFrozen(job.stage),
+      editEstimate: actor.ability.can('edit_estimate', subject('Job', row)) && !isEstimateFrozen(job.stage),
       logTime: canUpdate,
       addAttachment: actor.ability.can('create', subject('Attachment', { shopId: job.shopId }) as never),
       customerLink: canUpdate && mayRecordApproval(roles) && job.stage !== 'released',
@@ -629,7 +627,7 @@ export async function applyStageMove(
   }
   const from = job.stage;
   const now = new Date();
-  const changes: Partial<Job> = { stage: check.to, stageBeforeHold: check.stageBeforeHold as MainStage | null };
+  const changes: Partial<Job> = { stage: check.to, stageBeforeHold: check.stageBeforeHold };
   if (check.to === 'ready') changes.readyAt = now;
   if (check.to === 'released') changes.releasedAt = now;
   // a technician who starts unassigned work takes it
@@ -724,11 +722,11 @@ export interface TransferMove {
 export async function sendJobOnTheRoad(job: Job, move: TransferMove & { fromShopId: string }, transaction: Transaction) {
   const fromStage = job.stage;
   const resume = job.stage === 'waiting_for_parts' || job.stage === 'in_transit' ? job.stageBeforeHold : job.stage;
-  await job.update({ stage: 'in_transit', stageBeforeHold: resume as Job['stageBeforeHold'] }, { transaction });
+  await job.update({ stage: 'in_transit', stageBeforeHold: resume }, { transaction });
   await appendHistory(
     {
       networkId: job.networkId, instrumentId: job.instrumentId, jobId: job.id, shopId: move.fromShopId, userId: move.userId,
-      kind: 'stage_changed', summary: `Job ${job.number}: ${lowerStage(fromStage as JobStage)} → ${lowerStage('in_transit')}`,
+      kind: 'stage_changed', summary: `Job ${job.number}: ${lowerStage(fromStage)} → ${lowerStage('in_transit')}`,
       data: { from: fromStage, to: 'in_transit', transferId: move.transferId }, occurredAt: move.at, idempotencyKey: `${move.stepKey}:stage`,
     },
     transaction,
@@ -942,7 +940,7 @@ export async function addLineItem(actor: Actor, jobId: string, input: LineItemCr
     const job = await editableJob(actor, jobId, transaction);
     const shop = await findShop(actor.networkId, job.shopId, transaction);
     const before = await currentEstimate(job, transaction, shop.taxRateBasisPoints);
-    const last = (await JobLineItem.max('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction })) as number | null;
+    const last = await JobLineItem.max<number | null, JobLineItem>('position', { where: { networkId: actor.networkId, jobId: job.id }, transaction });
     const position = (last ?? -1) + 1;
     if (input.kind === 'labor') {
       const item = await ServiceCatalogItem.findOne({ where: { networkId: actor.networkId, id: input.catalogItemId, active: true }, transaction });

@@ -17,7 +17,7 @@ import {
 } from '../../../shared/schemas/people.js';
 import { audit } from './service.js';
 import { formatDateTime } from '../../../shared/time/format.js';
-import { notify } from '../notifications/service.js';
+import { notify } from '../notifications/index.js';
 
 /**
  * Invitations by e-mail. The link carries a random token; only its SHA-256 hash is stored, so a copy

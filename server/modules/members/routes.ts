@@ -1,3 +1,4 @@
+import { promisify } from 'node:util';
 import { Router } from 'express';
 import { z } from 'zod';
 import { config } from '../../config.js';
@@ -47,10 +48,8 @@ export const returnToSchema = z
   .regex(/^\/(?!\/)[^\s\\]*$/)
   .catch('/');
 
-const regenerate = (req: Express.Request) =>
-  new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
-const save = (req: Express.Request) =>
-  new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
+const regenerate = (req: Express.Request) => promisify(req.session.regenerate.bind(req.session))();
+const save = (req: Express.Request) => promisify(req.session.save.bind(req.session))();
 
 export const authRouter = Router();
 

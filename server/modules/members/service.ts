@@ -237,19 +237,20 @@ async function auditLabeller(networkId: string, rows: Array<{ entity: string; en
   const label = (entity: string, entityId: string | null, snap: Record<string, unknown> | null): string => {
     const s = snap ?? {};
     const shop = (id: unknown) => (typeof id === 'string' ? (shopName.get(id) ?? 'a removed shop') : 'the whole network');
+    const text = (value: unknown, fallback: string) => (typeof value === 'string' ? value : fallback);
     switch (entity) {
       case 'User':
-        return userName.get(entityId ?? '') ?? String(s.name ?? 'a person');
+        return userName.get(entityId ?? '') ?? text(s.name, 'a person');
       case 'Membership':
         return `${userName.get(String(s.userId)) ?? 'a person'} at ${shop(s.shopId)}`;
       case 'Invitation':
-        return String(s.email ?? 'an invitation');
+        return text(s.email, 'an invitation');
       case 'Shop':
-        return shopName.get(entityId ?? '') ?? String(s.name ?? 'a shop');
+        return shopName.get(entityId ?? '') ?? text(s.name, 'a shop');
       case 'RelayRun':
         return `${shop(s.fromShopId)} → ${shop(s.toShopId)}`;
       case 'Skill':
-        return String(s.name ?? 'a skill');
+        return text(s.name, 'a skill');
       default:
         return entityId ?? entity;
     }
@@ -356,7 +357,7 @@ const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : nul
 
 function personView(user: User, detail = false): PersonView {
   const memberships = [...(user.memberships ?? [])]
-    .map((m) => ({ id: m.id, shopId: m.shopId ?? null, shopName: m.shop?.name ?? null, role: m.role as Role }))
+    .map((m) => ({ id: m.id, shopId: m.shopId ?? null, shopName: m.shop?.name ?? null, role: m.role }))
     // the network-wide role first, then shops by name
     .sort((a, b) => (a.shopId === null ? -1 : b.shopId === null ? 1 : (a.shopName ?? '').localeCompare(b.shopName ?? '')));
   return {

@@ -18,7 +18,7 @@ import type {
   TechnicianSkillsInput,
   relayRunInputSchema,
 } from '../../../shared/schemas/shops.js';
-import { audit } from '../members/service.js';
+import { audit } from '../members/index.js';
 
 /**
  * The home page's shops: those where the person holds a role (the owner: every shop), each with its open

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { config } from '../../config.js';
 import { sequelize } from '../../lib/db.js';
-import { mailAttachments, transport, type MailAttachment, type OutgoingMail } from '../../lib/mail.js';
+import { mailAttachments, transport, type OutgoingMail } from '../../lib/mail.js';
 import { logger } from '../../lib/logger.js';
 import { enqueue } from '../../lib/queue-jobs.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
@@ -149,11 +149,11 @@ async function sendClaimed(row: ClaimedRow, transaction: Transaction): Promise<S
   try {
     const info = await transport.sendMail({
       from: config.smtp.from,
-      to: p.to as string | string[],
-      subject: p.subject as string,
-      text: p.text as string,
-      ...(p.html ? { html: p.html as string } : {}),
-      ...(Array.isArray(p.attachments) ? { attachments: mailAttachments(p.attachments as MailAttachment[]) } : {}),
+      to: p.to,
+      subject: p.subject,
+      text: p.text,
+      ...(p.html ? { html: p.html } : {}),
+      ...(Array.isArray(p.attachments) ? { attachments: mailAttachments(p.attachments) } : {}),
       messageId: `<${row.id}@outbox.benchrelay>`,
     });
     await OutboxMessage.update({ attempts: row.attempts + 1, sentAt: new Date(), lastError: null }, { where, transaction });
@@ -238,7 +238,7 @@ export async function deliverOutboxMessage(networkId: string, outboxId: string):
       transaction,
     });
     if (!row || row.sentAt) return null;
-    return sendClaimed({ id: row.id, networkId, payload: row.payload as ClaimedRow['payload'], attempts: row.attempts }, transaction);
+    return sendClaimed({ id: row.id, networkId, payload: row.payload, attempts: row.attempts }, transaction);
   });
   if (!outcome) return { sent: false };
   if (outcome.kind === 'failed') throw outcome.error;

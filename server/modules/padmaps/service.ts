@@ -14,9 +14,9 @@ import { padKeysFor } from '../../../shared/padmap/keys.js';
 import { isEstimateFrozen } from '../../../shared/jobs/stage-machine.js';
 import { padRulesSchema, resolvePadRules, type PadRules } from '../../../shared/padmap/rules.js';
 import { suggestFromMaps, type EarlierMap, type Suggestions } from '../../../shared/padmap/suggest.js';
-import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/service.js';
-import { assertEstimateOpen, replacePartLines } from '../jobs/service.js';
-import { appendHistory } from '../registry/service.js';
+import { jobStockStatus, padCatalogFor, padStockAt, syncJobReservations } from '../stock/index.js';
+import { assertEstimateOpen, replacePartLines } from '../jobs/index.js';
+import { appendHistory } from '../registry/index.js';
 
 /**
  * Pad maps: the per-key measurements of a repad and the pads chosen for them. A map is kept with the

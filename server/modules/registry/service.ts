@@ -7,7 +7,7 @@ import { Customer, HistoryEvent, Instrument, Shop } from '../../lib/models.js';
 import type { Actor } from '../../lib/auth.js';
 import { accessibleWhere, assertCan } from '../../lib/access.js';
 import { AppError, badRequest, forbidden, notFound, zodFields } from '../../lib/errors.js';
-import { findJobOpenedBy, openJob } from '../jobs/service.js';
+import { findJobOpenedBy, openJob } from '../jobs/index.js';
 import { INSTRUMENT_FAMILY_LABELS, OPEN_JOB_STAGES, type InstrumentFamily, type JobStage, type OwnerKind } from '../../../shared/domain.js';
 import { normalizeMaker, normalizeSerial } from '../../../shared/serial.js';
 import { osaDistance, singleEditVariants } from '../../../shared/serial-distance.js';
@@ -134,7 +134,7 @@ export async function customerViewById(actor: Actor, customerId: string | null, 
   const c = await Customer.findOne({ where: { networkId: actor.networkId, id: customerId }, transaction });
   if (!c) return null;
   const served = await servedShopsOf(actor.networkId, [c.id], transaction);
-  return customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
+  return customerView(actor, c.get({ plain: true }), served.get(c.id) ?? []);
 }
 
 async function servedShopsOf(networkId: string, customerIds: string[], transaction?: Transaction): Promise<Map<string, string[]>> {
@@ -390,7 +390,7 @@ export async function getInstrument(actor: Actor, id: string) {
     const c = await Customer.findOne({ where: { networkId, id: instrument.ownerCustomerId } });
     if (c) {
       const served = await servedShopsOf(networkId, [c.id]);
-      owner = customerView(actor, c.get({ plain: true }) as CustomerRow, served.get(c.id) ?? []);
+      owner = customerView(actor, c.get({ plain: true }), served.get(c.id) ?? []);
     }
   }
 
@@ -523,7 +523,7 @@ export async function getTimeline(actor: Actor, id: string, filters?: TimelineFi
 }
 
 function defaultSummary(kind: string, data: Record<string, unknown>): string {
-  if (kind === 'photo') return data.tag ? `Photo (${String(data.tag)})` : 'Photo';
+  if (kind === 'photo') return typeof data.tag === 'string' && data.tag ? `Photo (${data.tag})` : 'Photo';
   if (kind === 'document') return 'Document';
   if (kind === 'pad_map') return `Pad map of ${Number(data.keys ?? 0)} keys`;
   return kind.replace(/_/g, ' ');
@@ -590,7 +590,7 @@ export async function createCustomer(actor: Actor, input: z.output<typeof custom
     const shop = await Shop.findOne({ where: { networkId: actor.networkId, id: input.shopId }, transaction });
     if (!shop) throw notFound('That shop');
     const customer = await createCustomerIn(actor, shop.id, input, transaction);
-    return customerView(actor, customer.get({ plain: true }) as CustomerRow, []);
+    return customerView(actor, customer.get({ plain: true }), []);
   });
 }
 
@@ -841,7 +841,7 @@ function importChanges(instrument: Instrument, row: ImportRow, tag: string | und
 }
 
 const mayUpdate = (actor: Actor, instrument: Instrument) =>
-  actor.ability.can('update', asSubject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>) as never);
+  actor.ability.can('update', asSubject('Instrument', instrument.get({ plain: true }) as Record<string, unknown>));
 
 function heldElsewhere(ctx: ImportContext, row: ImportRow, instrument: Instrument): ImportRowResult {
   const name = ctx.shopNames.get(instrument.currentShopId) ?? 'another shop';

@@ -26,7 +26,7 @@ import {
 import { publicHolidays } from '../../../shared/jobs/promised-date.js';
 import { invoiceTotals, type InvoiceLineInput } from '../../../shared/reports/money.js';
 import type { CustomerKind } from '../../../shared/schemas/registry.js';
-import { visibleCustomerNames } from '../registry/service.js';
+import { visibleCustomerNames } from '../registry/index.js';
 
 /**
  * The network at a glance. Every figure is one SQL aggregate over the shops the person may see

@@ -10,7 +10,7 @@ import type { PadCatalog } from '../../../shared/padmap/compute.js';
 import type { PadKind } from '../../../shared/padmap/rules.js';
 import { PartTransfer, type PartTransferState } from './models.js';
 import { cautionsFor, normaliseHazards, type Hazard } from '../../../shared/safety/hazards.js';
-import { notify, peopleAt } from '../notifications/service.js';
+import { notify, peopleAt } from '../notifications/index.js';
 
 /**
  * Stock per shop, reservations for jobs, and parts sent between shops.

@@ -38,10 +38,10 @@ import {
   type CreateTransferInput,
   type TransferView,
 } from '../../../shared/transfers.js';
-import { notify, peopleAt } from '../notifications/service.js';
+import { notify, peopleAt } from '../notifications/index.js';
 import { isHeavyCase, LIFTING_CAUTION } from '../../../shared/safety/hazards.js';
-import { noticeCustomerOfTransfer, receiveTransferredJob, sendJobOnTheRoad } from '../jobs/service.js';
-import { appendHistory, setInstrumentWhereabouts } from '../registry/service.js';
+import { noticeCustomerOfTransfer, receiveTransferredJob, sendJobOnTheRoad } from '../jobs/index.js';
+import { appendHistory, setInstrumentWhereabouts } from '../registry/index.js';
 import { renderManifest } from './manifest.js';
 import {
   enqueueOutbox,
@@ -106,7 +106,7 @@ async function loadBundle(networkId: string, id: string, transaction?: Transacti
 /** A transfer the person may read; anything else is "not found", so ids of other shops do not leak. */
 async function loadReadable(actor: Actor, id: string): Promise<Bundle> {
   const row = await loadBundle(actor.networkId, id);
-  if (!row || !actor.ability.can('read', asSubject('Transfer', plain(row)) as never)) throw notFound('That transfer');
+  if (!row || !actor.ability.can('read', asSubject('Transfer', plain(row)))) throw notFound('That transfer');
   return row;
 }
 
@@ -226,7 +226,7 @@ export async function getTransfer(actor: Actor, id: string) {
     receivedBy: person(t.receivedBy),
     relayRun: t.relayRun ? runBrief(t.relayRun, t.fromShop, now) : null,
     runOptions: runs.map((r) => runBrief(r, t.fromShop, now)).sort((a, b) => (a.nextDepartureAt ?? '').localeCompare(b.nextDepartureAt ?? '')),
-    manifestAvailable: !!t.manifestKey && MANIFEST_STATES.includes(t.state as TransferState),
+    manifestAvailable: !!t.manifestKey && MANIFEST_STATES.includes(t.state),
     pendingStep: pending,
     nextStates: TRANSFER_TRANSITIONS[t.state as TransferState],
     history: history.map((h) => ({
@@ -264,7 +264,7 @@ export async function manifestFile(actor: Actor, id: string) {
   if (t.state === 'cancelled' || t.state === 'rejected') {
     throw new AppError(409, 'no_manifest', `This transfer was ${t.state}; it has no manifest.`);
   }
-  if (!MANIFEST_STATES.includes(t.state as TransferState)) {
+  if (!MANIFEST_STATES.includes(t.state)) {
     throw new AppError(409, 'manifest_not_ready', 'The manifest is made when the instrument is packed; it is not packed yet.');
   }
   if (!t.manifestKey) {
@@ -484,7 +484,7 @@ async function queueStep(actor: Actor, t: Transfer, to: TransferState, extra: Pa
 
 /** Visible rows first (404 for the unseen), then the permission for the step itself (403). */
 function readableOr404(actor: Actor, t: Transfer) {
-  if (!actor.ability.can('read', asSubject('Transfer', plain(t)) as never)) throw notFound('That transfer');
+  if (!actor.ability.can('read', asSubject('Transfer', plain(t)))) throw notFound('That transfer');
 }
 
 export async function approveTransfer(actor: Actor, id: string, input: { note?: string }) {
@@ -506,7 +506,7 @@ export async function rejectTransfer(actor: Actor, id: string, input: { reason: 
 export async function cancelTransfer(actor: Actor, id: string, input: { reason: string }) {
   const t = await loadForStep(actor, id);
   readableOr404(actor, t);
-  const managerOrOwner = actor.ability.can('update', asSubject('Transfer', plain(t)) as never);
+  const managerOrOwner = actor.ability.can('update', asSubject('Transfer', plain(t)));
   const ownRequest =
     t.requestedByUserId === actor.id && actor.ability.can('request', asSubject('Transfer', { fromShopId: t.fromShopId }) as never);
   if (!managerOrOwner && !ownRequest) throw forbidden('Only the person who asked, a manager of the two shops or the owner can cancel.');

@@ -19,15 +19,15 @@ export function AppLayout() {
   const { currentShop, setCurrentShop } = useCurrentShop();
   const location = useLocation();
   const menuId = useId();
-  const [menuOpen, setMenuOpen] = useState(false);
-
-  // The phone menu closes once a link has taken the person somewhere.
-  useEffect(() => setMenuOpen(false), [location.pathname]);
+  // The phone menu is open only on the page it was opened on, so it closes once a link has taken the
+  // person somewhere.
+  const [menuOpenAt, setMenuOpenAt] = useState<string | null>(null);
+  const menuOpen = menuOpenAt === location.pathname;
 
   useEffect(() => {
     if (!menuOpen) return;
     const onKeyDown = (event: KeyboardEvent) => {
-      if (event.key === 'Escape') setMenuOpen(false);
+      if (event.key === 'Escape') setMenuOpenAt(null);
     };
     window.addEventListener('keydown', onKeyDown);
     return () => window.removeEventListener('keydown', onKeyDown);
@@ -57,7 +57,7 @@ export function AppLayout() {
             className="order-2 inline-flex min-h-11 items-center gap-2 rounded-lg border border-paper-300 px-4 text-sm font-semibold text-ink-950 hover:bg-paper-50 lg:hidden"
             aria-expanded={menuOpen}
             aria-controls={`${menuId}-nav ${menuId}-account`}
-            onClick={() => setMenuOpen((open) => !open)}
+            onClick={() => setMenuOpenAt(menuOpen ? null : location.pathname)}
           >
             <svg className="size-5" viewBox="0 0 20 20" fill="none" aria-hidden="true">
               {menuOpen ? (

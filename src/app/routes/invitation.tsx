@@ -80,7 +80,7 @@ export function AcceptInvitationRoute() {
     accept.mutate(token, {
       onSuccess: () => {
         void queryClient.invalidateQueries({ queryKey: meQueryOptions().queryKey });
-        navigate('/', { replace: true });
+        void navigate('/', { replace: true });
       },
     });
   }, [accept, navigate, queryClient, token]);

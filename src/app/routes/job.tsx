@@ -1,5 +1,5 @@
 import { PRIVATE_CUSTOMER_LABEL } from '@shared/registry';
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
 import { subject } from '@casl/ability';
@@ -166,7 +166,9 @@ const TRANSFER_STEP_WORDS: Record<NonNullable<JobDetail['job']['openTransfer']>[
 
 /** A transfer under way, said where the job is read, with a link to follow it. */
 function OpenTransferNote({ t, href }: { t: NonNullable<JobDetail['job']['openTransfer']>; href: string }) {
-  const waiting = t.state === 'in_transit' && t.onRelayRun && t.departedAt && Date.parse(t.departedAt) > Date.now();
+  // the clock as the note first showed; rendering again must not change what it says
+  const [shownAt] = useState(Date.now);
+  const waiting = t.state === 'in_transit' && t.onRelayRun && t.departedAt && Date.parse(t.departedAt) > shownAt;
   return (
     <p role="status" aria-label="Open transfer" className="max-w-prose rounded-lg border border-accent-200 bg-accent-50 px-3 py-2 text-accent-800">
       {t.state === 'in_transit' && t.onRelayRun ? (

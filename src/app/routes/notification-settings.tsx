@@ -1,4 +1,4 @@
-import { useEffect, useId, useState, type FormEvent } from 'react';
+import { useId, useState, type FormEvent } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { NOTIFICATION_KIND_LABELS, type NotificationKind } from '@shared/domain';
@@ -18,13 +18,10 @@ export function NotificationSettingsRoute() {
   const { currentShop } = useCurrentShop();
   const prefs = useQuery(preferencesQueryOptions());
   const save = useSavePreferences();
+  // only the person's own changes: unchanged kinds show what the server holds, and a refetch keeps the edits
   const [choices, setChoices] = useState<Partial<Record<NotificationKind, boolean>>>({});
   const [saved, setSaved] = useState(false);
   const formId = useId();
-
-  useEffect(() => {
-    if (prefs.data) setChoices(Object.fromEntries(prefs.data.preferences.map((p) => [p.kind, p.email])));
-  }, [prefs.data]);
 
   const changed = !!prefs.data && prefs.data.preferences.some((p) => choices[p.kind] !== undefined && choices[p.kind] !== p.email);
 

@@ -75,8 +75,8 @@ export function RegistryRoute() {
           onQueryChange={(value) => set('q', value)}
           filters={filters}
           listWithoutText
-          onPick={(hit) => navigate(instrumentPath(hit.id))}
-          onScannedInstrument={(id) => navigate(instrumentPath(id))}
+          onPick={(hit) => void navigate(instrumentPath(hit.id))}
+          onScannedInstrument={(id) => void navigate(instrumentPath(id))}
           linkTo={(hit) => instrumentPath(hit.id)}
           footer={({ query, results }) =>
             results.length ? (

@@ -35,7 +35,7 @@ export function NewShopRoute() {
               onSuccess: ({ shop }) => {
                 // the new shop belongs in the owner's shop switcher too
                 void queryClient.invalidateQueries({ queryKey: sessionKeys.me() });
-                navigate(withShop(`/shops/${shop.id}`, currentShop?.id));
+                void navigate(withShop(`/shops/${shop.id}`, currentShop?.id));
               },
               onError: (e) => setMessage({ tone: 'error', text: errorMessage(e) }),
             })

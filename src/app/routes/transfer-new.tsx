@@ -28,7 +28,7 @@ export function TransferNewRoute() {
             return next;
           })
         }
-        onCreated={(id) => navigate(withShop(`/transfers/${id}`, currentShop?.id))}
+        onCreated={(id) => void navigate(withShop(`/transfers/${id}`, currentShop?.id))}
         hrefFor={(path) => withShop(path, currentShop?.id)}
       />
     </>

@@ -45,6 +45,10 @@ export function ButtonLink({ variant, size, className, ...props }: LinkProps & S
  * A plain anchor that looks like a button, for addresses the server handles (such as /auth/login),
  * which must be a full page load rather than a client-side route change.
  */
-export function ButtonAnchor({ variant, size, className, ...props }: AnchorHTMLAttributes<HTMLAnchorElement> & StyleProps) {
-  return <a className={buttonClasses(variant, size, className)} {...props} />;
+export function ButtonAnchor({ variant, size, className, children, ...props }: AnchorHTMLAttributes<HTMLAnchorElement> & StyleProps) {
+  return (
+    <a className={buttonClasses(variant, size, className)} {...props}>
+      {children}
+    </a>
+  );
 }

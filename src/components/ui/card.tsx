@@ -14,6 +14,10 @@ export function Card({ as: Element = 'div', className, ...props }: CardProps) {
   );
 }
 
-export function CardTitle({ className, ...props }: HTMLAttributes<HTMLHeadingElement>) {
-  return <h2 className={cn('text-lg font-semibold text-ink-950', className)} {...props} />;
+export function CardTitle({ className, children, ...props }: HTMLAttributes<HTMLHeadingElement>) {
+  return (
+    <h2 className={cn('text-lg font-semibold text-ink-950', className)} {...props}>
+      {children}
+    </h2>
+  );
 }

@@ -22,7 +22,7 @@ export function Field({ label, error, hint, className, children }: FieldProps) {
   const id = useId();
   const hintId = hint ? `${id}-hint` : undefined;
   const errorId = error ? `${id}-error` : undefined;
-  const count = isValidElement(children) ? countOf(children.props as { maxLength?: unknown; value?: unknown }) : null;
+  const count = isValidElement(children) ? countOf(children.props) : null;
   const countId = count ? `${id}-count` : undefined;
   const control = isValidElement(children)
     ? cloneElement(children, {

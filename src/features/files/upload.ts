@@ -52,8 +52,11 @@ let seq = 0;
 export function useUploads(jobId: string) {
   const queryClient = useQueryClient();
   const [items, setItems] = useState<UploadItem[]>([]);
+  // the latest list for callbacks that outlive a render (retries, the browser coming back online)
   const itemsRef = useRef(items);
-  itemsRef.current = items;
+  useEffect(() => {
+    itemsRef.current = items;
+  }, [items]);
 
   const patch = useCallback((localId: string, change: Partial<UploadItem>) => {
     setItems((list) => list.map((i) => (i.localId === localId ? { ...i, ...change } : i)));

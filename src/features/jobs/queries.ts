@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
-import type { BenchJob, BoardResponse, CatalogItemDto, JobDetail, JobSummary, PersonRef } from '@shared/jobs/dto';
+import type { BenchJob, BoardResponse, CatalogItemDto, JobDetail, PersonRef } from '@shared/jobs/dto';
 import type { JobStage } from '@shared/domain';
 
 /** Filters of the job board as they sit in the address bar (all strings, `shop` always present). */

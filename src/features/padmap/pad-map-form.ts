@@ -111,7 +111,7 @@ const NO_ERRORS: Partial<Record<MeasureField, string>> = Object.freeze({});
  * Reads and computes one row. Results are cached by the row's content, so a keystroke recomputes one
  * key and every other row keeps the very same objects (and the grid skips re-rendering them).
  */
-function previewRow(row: GridRow, unit: LengthUnit, ws: PadMapWorkspace): RowPreview {
+function previewRow(row: GridRow, unit: LengthUnit, ws: Pick<PadMapWorkspace, 'catalog' | 'rules'>): RowPreview {
   const { entries, errors } = readEntries(
     [{ keyId: row.keyId, keyName: row.custom ? row.keyName : null, padKind: row.padKind, floor: row.floor, cupDiameter: row.cupDiameter, cupDepth: row.cupDepth, rimDiameter: row.rimDiameter }],
     unit,
@@ -123,6 +123,24 @@ function previewRow(row: GridRow, unit: LengthUnit, ws: PadMapWorkspace): RowPre
   return { errors: Object.keys(rowErrors).length ? rowErrors : NO_ERRORS, result: computeKey(entry, ws.catalog, ws.rules) };
 }
 
+/** Row previews by the row's content, for one catalog and one set of pad rules. */
+class RowPreviews {
+  private readonly byContent = new Map<string, RowPreview>();
+
+  constructor(private readonly ws: Pick<PadMapWorkspace, 'catalog' | 'rules'>) {}
+
+  of(row: GridRow, unit: LengthUnit): RowPreview {
+    if (this.byContent.size > 5000) this.byContent.clear();
+    const key = JSON.stringify([row.keyId, row.custom ? row.keyName : null, row.padKind, row.floor, row.cupDiameter, row.cupDepth, row.rimDiameter, unit]);
+    let hit = this.byContent.get(key);
+    if (!hit) {
+      hit = previewRow(row, unit, this.ws);
+      this.byContent.set(key, hit);
+    }
+    return hit;
+  }
+}
+
 export function usePadMapForm(ws: PadMapWorkspace) {
   const initial = useMemo(() => initialRows(ws), [ws]);
   const [rows, setRows] = useState(initial.rows);
@@ -131,25 +149,16 @@ export function usePadMapForm(ws: PadMapWorkspace) {
   const [savedSnapshot, setSavedSnapshot] = useState(() => JSON.stringify([initial.rows, initial.unit]));
 
   // a new cache whenever the catalog or rules change, since every result depends on them
-  const cache = useMemo(() => new Map<string, RowPreview>(), [ws.catalog, ws.rules]);
+  const previews = useMemo(() => new RowPreviews({ catalog: ws.catalog, rules: ws.rules }), [ws.catalog, ws.rules]);
   const preview: Preview = useMemo(() => {
-    if (cache.size > 5000) cache.clear();
-    const perRow = rows.map((row) => {
-      const key = JSON.stringify([row.keyId, row.custom ? row.keyName : null, row.padKind, row.floor, row.cupDiameter, row.cupDepth, row.rimDiameter, unit]);
-      let hit = cache.get(key);
-      if (!hit) {
-        hit = previewRow(row, unit, ws);
-        cache.set(key, hit);
-      }
-      return hit;
-    });
+    const perRow = rows.map((row) => previews.of(row, unit));
     const errors: Preview['errors'] = {};
     perRow.forEach((p, i) => {
       if (p.errors !== NO_ERRORS) errors[i] = p.errors;
     });
     const service = ws.services.find((s) => s.id === serviceId);
     return { result: summarizeKeys(perRow.map((p) => p.result), ws.catalog, ws.rules, service?.standardHours ?? null), errors };
-  }, [rows, unit, serviceId, ws, cache]);
+  }, [rows, unit, serviceId, ws, previews]);
 
   const update = useCallback((index: number, patch: Partial<GridRow>) => {
     setRows((current) => current.map((row, i) => (i === index ? { ...row, ...patch } : row)));

@@ -104,7 +104,7 @@ function show(key: string, value: unknown, names: Record<string, string>): strin
   if (Array.isArray(value)) {
     if (value.length === 0) return 'none';
     if ((key === 'weekdays' || key === 'openingDays') && value.every((d) => typeof d === 'number')) {
-      return value.map((d) => WEEKDAY_NAMES[d as number] ?? String(d)).join(', ');
+      return value.map((d) => WEEKDAY_NAMES[d] ?? String(d)).join(', ');
     }
     return value
       .map((item) => {
@@ -126,7 +126,8 @@ function show(key: string, value: unknown, names: Record<string, string>): strin
   if (typeof value === 'object') {
     return Object.entries(value as Record<string, unknown>).map(([k, v]) => `${fieldLabel(k)}: ${show(k, v, names)}`).join(', ');
   }
-  return String(value);
+  // a logged record is JSON: every kind of value it can hold is handled above
+  return '—';
 }
 
 /**

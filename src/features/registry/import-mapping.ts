@@ -39,7 +39,7 @@ export function applyMapping(rows: Array<Record<string, unknown>>, mapping: Colu
       const column = mapping[field.key];
       if (!column) continue;
       const value = source[column];
-      if (value !== undefined && value !== null) out[field.key] = String(value);
+      if (typeof value === 'string' || typeof value === 'number' || typeof value === 'boolean') out[field.key] = String(value);
     }
     return out;
   });

@@ -17,7 +17,8 @@ export type SearchParams = Pick<InstrumentSearchInput, 'q' | 'family' | 'shopId'
 export function searchQueryString(params: SearchParams): string {
   const out = new URLSearchParams();
   for (const [key, value] of Object.entries(params)) {
-    if (value !== undefined && value !== null && String(value).trim() !== '') out.set(key, String(value).trim());
+    const text = typeof value === 'string' || typeof value === 'number' ? String(value).trim() : '';
+    if (text !== '') out.set(key, text);
   }
   return out.toString();
 }

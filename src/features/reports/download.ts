@@ -14,9 +14,10 @@ export class DownloadError extends Error {
 export async function downloadFile(href: string): Promise<string> {
   const res = await fetch(href, { credentials: 'same-origin' });
   if (!res.ok) {
-    let body: { error?: { message?: string; fields?: Record<string, string> } } = {};
+    type ErrorBody = { error?: { message?: string; fields?: Record<string, string> } };
+    let body: ErrorBody = {};
     try {
-      body = await res.json();
+      body = (await res.json()) as ErrorBody;
     } catch {
       // not JSON: fall through to the generic message
     }

@@ -35,6 +35,6 @@ export function jobsQueryOptions(filters: JobListFilters) {
   return queryOptions({
     queryKey: reportKeys.jobs(filters),
     queryFn: ({ signal }) =>
-      api.get<ListAnswer<ReportJob>>(`/api/reports/jobs${qs({ ...filters } as Record<string, string | number | undefined>)}`, signal),
+      api.get<ListAnswer<ReportJob>>(`/api/reports/jobs${qs({ ...filters })}`, signal),
   });
 }

@@ -89,7 +89,7 @@ export const cases: RouteCase[] = [
     // the assignee must work at the job's shop; skills are the network's
     foreignIds: { 'body.assignedUserId': { kind: 'user', otherShop: 'refused' }, 'body.requiredSkillId': 'skill' },
     verify: async ({ built }) => {
-      const job = await Job.findByPk(built.path.split('/').pop()!);
+      const job = await Job.findByPk(built.path.split('/').pop());
       expect(job?.conditionNotes).toBe('Case hinge loose.');
     },
   },

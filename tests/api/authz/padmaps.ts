@@ -18,7 +18,7 @@ export const cases: RouteCase[] = [
     route: 'GET /api/pad-maps/suggestions',
     scopeless: true,
     allow: signedIn,
-    build: () => ({ path: '/api/pad-maps/suggestions', query: { family: 'alto_saxophone', maker: 'Testmaker', model: 'T-1' } }),
+    build: () => ({ path: '/api/pad-maps/suggestions', query: { family: 'alto_saxophone', maker: 'Testmaker', model: 'Testmodel' } }),
   },
   {
     // everyone who reads the job reads its pad map; auditors only at their shops

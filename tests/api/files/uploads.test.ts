@@ -84,7 +84,7 @@ describe('photos and documents through presigned uploads', () => {
     expect(thumbKey).toBe(`networks/${w.network.id}/jobs/${jobId}/${ticket.attachment.id}/thumbnail.webp`);
     const thumbMeta = await sharp(await getObjectBuffer(thumbKey)).metadata();
     expect(thumbMeta.format).toBe('webp');
-    expect(Math.max(thumbMeta.width!, thumbMeta.height!)).toBe(480);
+    expect(Math.max(thumbMeta.width, thumbMeta.height)).toBe(480);
 
     const list = await request(app).get(`/api/jobs/${jobId}/attachments`).set('Cookie', w.cookies.auditor).expect(200);
     const listed = (list.body.attachments as AttachmentDto[]).find((a) => a.id === ticket.attachment.id)!;

@@ -76,7 +76,7 @@ describe('registry privacy: contact details by role and shop', () => {
     ['techB', false],
     ['auditorA', true],
   ])('%s sees the contact details: %s', async (who, sees) => {
-    const res = await page(who as string).expect(200);
+    const res = await page(who).expect(200);
     expect(res.body.owner.contactVisible).toBe(sees);
     const text = JSON.stringify(res.body);
     if (sees) {

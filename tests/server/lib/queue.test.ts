@@ -20,10 +20,10 @@ describe('queue on the PostgreSQL backend', () => {
     const seen: string[] = [];
     let resolveDone: () => void;
     const done = new Promise<void>((r) => (resolveDone = r));
-    const worker = createWorker<{ n: number }>(name, async (job) => {
+    const worker = createWorker<{ n: number }>(name, (job) => {
       seen.push(`${job.id}:${job.data.n}`);
       resolveDone();
-      return job.data.n * 2;
+      return Promise.resolve(job.data.n * 2);
     });
     closers.push(() => worker.close());
 
@@ -45,11 +45,11 @@ describe('queue on the PostgreSQL backend', () => {
     const attempts: number[] = [];
     let resolveDone: () => void;
     const done = new Promise<void>((r) => (resolveDone = r));
-    const worker = createWorker(name, async (job) => {
+    const worker = createWorker(name, (job) => {
       attempts.push(job.attemptsMade);
-      if (attempts.length < 3) throw new Error('courier system not answering');
+      if (attempts.length < 3) return Promise.reject(new Error('courier system not answering'));
       resolveDone();
-      return 'ok';
+      return Promise.resolve('ok');
     });
     closers.push(() => worker.close());
 
@@ -67,9 +67,9 @@ describe('queue on the PostgreSQL backend', () => {
     const queue = createQueue(name);
     closers.push(() => queue.close());
     let calls = 0;
-    const worker = createWorker(name, async () => {
+    const worker = createWorker(name, () => {
       calls++;
-      throw new Error('always broken');
+      return Promise.reject(new Error('always broken'));
     });
     closers.push(() => worker.close());
     const failed = new Promise<void>((resolve) => worker.on('failed', (job) => job && job.attemptsMade >= 2 && resolve()));

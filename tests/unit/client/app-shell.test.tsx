@@ -8,6 +8,7 @@ import { AppProviders } from '@/app/providers';
 import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import { assignLocation } from '@/lib/browser';
+import { requestUrl } from '../../helpers/request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -28,7 +29,7 @@ interface FetchCall {
 function renderApp(path: string, answers: Answers) {
   const calls: FetchCall[] = [];
   const fetchMock = vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-    const url = new URL(String(input), 'http://localhost');
+    const url = requestUrl(input);
     const method = (init.method ?? 'GET').toUpperCase();
     calls.push({ method, path: url.pathname, credentials: init.credentials });
     const entry = answers[`${method} ${url.pathname}`];

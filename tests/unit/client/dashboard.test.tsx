@@ -7,6 +7,7 @@ import type { DashboardReport } from '@shared/reports/schemas';
 import { AppProviders } from '@/app/providers';
 import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+import { requestUrl } from '../../helpers/request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -21,11 +22,11 @@ function renderAt(path: string, answers: Record<string, Answer>) {
   const calls: string[] = [];
   vi.stubGlobal(
     'fetch',
-    vi.fn(async (input: RequestInfo | URL) => {
-      const url = new URL(String(input), 'http://localhost');
+    vi.fn((input: RequestInfo | URL) => {
+      const url = requestUrl(input);
       calls.push(url.pathname + url.search);
       const answer = answers[`GET ${url.pathname}`] ?? { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } };
-      return new Response(JSON.stringify(answer.body), { status: answer.status, headers: { 'Content-Type': 'application/json' } });
+      return Promise.resolve(new Response(JSON.stringify(answer.body), { status: answer.status, headers: { 'Content-Type': 'application/json' } }));
     }),
   );
   const router = createMemoryRouter(routes, { initialEntries: [path] });

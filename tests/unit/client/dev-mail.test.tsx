@@ -6,6 +6,7 @@ import { afterEach, describe, expect, it, vi, beforeAll } from 'vitest';
 import { AppProviders } from '@/app/providers';
 import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
+import { requestUrl } from '../../helpers/request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -13,11 +14,11 @@ beforeAll(() => preloadPages(), 120_000);
 // The development mail page only reads `GET /api/dev/mail`; a fake fetch answers it here, while the
 // catcher behind the endpoint is tested against real SMTP elsewhere.
 function renderDevMail(path: string, answer: { status: number; body: unknown }) {
-  const fetchMock = vi.fn(async (input: RequestInfo | URL) => {
-    const { pathname } = new URL(String(input), 'http://localhost');
+  const fetchMock = vi.fn((input: RequestInfo | URL) => {
+    const { pathname } = requestUrl(input);
     const { status, body } =
       pathname === '/api/dev/mail' ? answer : { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } };
-    return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+    return Promise.resolve(new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } }));
   });
   vi.stubGlobal('fetch', fetchMock);
   const router = createMemoryRouter(routes, { initialEntries: [path] });

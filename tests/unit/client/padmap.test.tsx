@@ -8,6 +8,7 @@ import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import { DEFAULT_PAD_RULES } from '@shared/padmap/rules';
 import type { PadMapWorkspace } from '@/features/padmap/types';
+import { requestUrl } from '../../helpers/request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -55,18 +56,18 @@ function renderScreen(ws: PadMapWorkspace, onSave?: Handler) {
   const sent: unknown[] = [];
   vi.stubGlobal(
     'fetch',
-    vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-      const url = new URL(String(input), 'http://localhost');
+    vi.fn((input: RequestInfo | URL, init: RequestInit = {}) => {
+      const url = requestUrl(input);
       const method = (init.method ?? 'GET').toUpperCase();
       let answer: Answer = { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } };
       if (url.pathname === '/api/me') answer = { status: 200, body: me };
       if (method === 'GET' && url.pathname === '/api/jobs/job-1/pad-map') answer = { status: 200, body: ws };
       if (method === 'PUT' && url.pathname === '/api/jobs/job-1/pad-map') {
-        const body = JSON.parse(String(init.body));
+        const body: unknown = typeof init.body === 'string' ? JSON.parse(init.body) : undefined;
         sent.push(body);
         answer = onSave ? onSave(body) : { status: 200, body: { ...ws, saved: { padMapId: 'pm-1', created: true, labor: null, reservation: { reserved: 0, released: 0 } } } };
       }
-      return new Response(JSON.stringify(answer.body ?? null), { status: answer.status, headers: { 'Content-Type': 'application/json' } });
+      return Promise.resolve(new Response(JSON.stringify(answer.body ?? null), { status: answer.status, headers: { 'Content-Type': 'application/json' } }));
     }),
   );
   const router = createMemoryRouter(routes, { initialEntries: ['/jobs/job-1/pad-map?shop=shop-1'] });
@@ -78,7 +79,7 @@ function renderScreen(ws: PadMapWorkspace, onSave?: Handler) {
   return { sent };
 }
 
-const cell = (label: string) => screen.getByLabelText(label) as HTMLInputElement;
+const cell = (label: string) => screen.getByLabelText<HTMLInputElement>(label);
 const rowOf = (label: string) => cell(label).closest('tr') as HTMLElement;
 
 beforeEach(() => window.localStorage.clear());

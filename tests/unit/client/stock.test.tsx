@@ -7,6 +7,7 @@ import { AppProviders } from '@/app/providers';
 import { preloadPages, routes } from '@/app/router';
 import { createQueryClient } from '@/lib/query-client';
 import type { StockPage } from '@/features/stock/types';
+import { requestUrl } from '../../helpers/request-url';
 
 // pages are lazy chunks: load their code once up front, as a warm browser cache would have it
 beforeAll(() => preloadPages(), 120_000);
@@ -55,16 +56,16 @@ function renderStock() {
   const calls: Array<{ method: string; path: string; body?: unknown }> = [];
   vi.stubGlobal(
     'fetch',
-    vi.fn(async (input: RequestInfo | URL, init: RequestInit = {}) => {
-      const url = new URL(String(input), 'http://localhost');
+    vi.fn((input: RequestInfo | URL, init: RequestInit = {}) => {
+      const url = requestUrl(input);
       const method = (init.method ?? 'GET').toUpperCase();
-      calls.push({ method, path: `${url.pathname}${url.search}`, body: init.body ? JSON.parse(String(init.body)) : undefined });
+      calls.push({ method, path: `${url.pathname}${url.search}`, body: typeof init.body === 'string' ? JSON.parse(init.body) : undefined });
       let body: unknown = { error: { code: 'not_found', message: 'Not found' } };
       let status = 404;
       if (url.pathname === '/api/me') [status, body] = [200, me(technicianRules)];
       if (url.pathname === '/api/stock') [status, body] = [200, page];
       if (method === 'POST' && url.pathname.startsWith('/api/stock/part-transfers')) [status, body] = [201, { created: true, transfer: page.transfers.incoming[0] }];
-      return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+      return Promise.resolve(new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } }));
     }),
   );
   const router = createMemoryRouter(routes, { initialEntries: ['/stock?shop=shop-1'] });

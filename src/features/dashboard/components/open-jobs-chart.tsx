@@ -100,7 +100,7 @@ export function OpenJobsChart({ report }: { report: DashboardReport }) {
                 cursor="pointer"
                 onClick={(data) => {
                   const shopId = (data as { payload?: { shopId?: string } }).payload?.shopId;
-                  if (shopId) navigate(reportLinks.jobs({ shop: shopId, stage: s }));
+                  if (shopId) void navigate(reportLinks.jobs({ shop: shopId, stage: s }));
                 }}
               />
             ))}

@@ -41,7 +41,7 @@ export function WeeklyIntakeChart({ report, shop }: { report: DashboardReport; s
             cursor="pointer"
             onClick={(data) => {
               const week = (data as { payload?: { week?: string } }).payload?.week;
-              if (week) navigate(reportLinks.jobs({ shop, week }));
+              if (week) void navigate(reportLinks.jobs({ shop, week }));
             }}
           />
         </BarChart>

@@ -9,7 +9,6 @@ import type { GridRow, Preview } from '../pad-map-form';
 
 /** Columns the keyboard moves through, in the order a technician reads them off the caliper. */
 const COLUMNS = ['cupDiameter', 'cupDepth', 'rimDiameter', 'floor', 'padKind'] as const;
-type Column = (typeof COLUMNS)[number];
 const MEASURES: Array<{ field: MeasureField; label: string }> = [
   { field: 'cupDiameter', label: 'cup diameter' },
   { field: 'cupDepth', label: 'cup depth' },
@@ -96,6 +95,7 @@ export function PadMapGrid({ rows, unit, preview, serverErrors, suggestions, rea
 
   if (!wide) {
     return (
+      // eslint-disable-next-line jsx-a11y/no-noninteractive-element-interactions -- Enter and the arrows pressed in a card's fields bubble up here to move between keys
       <div ref={tableRef} className="flex flex-col gap-3" onKeyDown={onKeyDown} role="list" aria-label="Pad map, one card per key">
         {rows.map((row, index) => (
           <KeyCard
@@ -119,6 +119,7 @@ export function PadMapGrid({ rows, unit, preview, serverErrors, suggestions, rea
 
   return (
     <div ref={tableRef} className="overflow-x-auto rounded-2xl border border-paper-200 bg-white" data-print="sheet">
+      {/* eslint-disable-next-line jsx-a11y/no-noninteractive-element-interactions -- Enter and the arrows pressed in a cell's field bubble up here to move between rows */}
       <table className="w-full border-collapse text-left text-sm" onKeyDown={onKeyDown}>
         <caption className="sr-only">
           Pad map, one row per key. Enter moves down a column, Shift+Enter moves up; type units inline, such as 1.200in or 30.5mm.
@@ -272,7 +273,7 @@ const GridRowView = memo(function GridRowView({ index, idBase, row, unit, result
       })}
       <td className="px-2 py-2">
         <select
-          data-cell={`${index}:${COLUMNS.indexOf('floor' as Column)}`}
+          data-cell={`${index}:${COLUMNS.indexOf('floor')}`}
           aria-label={`${rowLabel} floor`}
           value={row.floor}
           disabled={readOnly}
@@ -286,7 +287,7 @@ const GridRowView = memo(function GridRowView({ index, idBase, row, unit, result
       </td>
       <td className="px-2 py-2">
         <select
-          data-cell={`${index}:${COLUMNS.indexOf('padKind' as Column)}`}
+          data-cell={`${index}:${COLUMNS.indexOf('padKind')}`}
           aria-label={`${rowLabel} pad kind`}
           value={row.padKind}
           disabled={readOnly}
@@ -427,7 +428,7 @@ const KeyCard = memo(function KeyCard({ index, idBase, row, unit, result, readin
         <label className="flex min-w-0 flex-col gap-1 text-xs font-semibold text-ink-600">
           Floor
           <select
-            data-cell={`${index}:${COLUMNS.indexOf('floor' as Column)}`}
+            data-cell={`${index}:${COLUMNS.indexOf('floor')}`}
             aria-label={`${rowLabel} floor`}
             value={row.floor}
             disabled={readOnly}
@@ -442,7 +443,7 @@ const KeyCard = memo(function KeyCard({ index, idBase, row, unit, result, readin
         <label className="flex min-w-0 flex-col gap-1 text-xs font-semibold text-ink-600">
           Pad kind
           <select
-            data-cell={`${index}:${COLUMNS.indexOf('padKind' as Column)}`}
+            data-cell={`${index}:${COLUMNS.indexOf('padKind')}`}
             aria-label={`${rowLabel} pad kind`}
             value={row.padKind}
             disabled={readOnly}

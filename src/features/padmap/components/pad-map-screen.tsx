@@ -110,7 +110,7 @@ function PadMapEditor({ ws, rulesHref, jobHref }: { ws: PadMapWorkspace; rulesHr
   const rules = ws.rules;
 
   return (
-    <form onSubmit={submit} noValidate className="space-y-6" data-print="page">
+    <form onSubmit={(event) => void submit(event)} noValidate className="space-y-6" data-print="page">
       <PageHeader
         title={`Pad map · Job ${ws.job.number}`}
         description={
@@ -233,7 +233,7 @@ function PadMapEditor({ ws, rulesHref, jobHref }: { ws: PadMapWorkspace; rulesHr
           onServiceChange={form.setServiceId}
           canRequest={ws.can.requestParts}
           requesting={request.isPending ? (request.variables?.partId ?? null) : null}
-          onRequest={onRequest}
+          onRequest={(line) => void onRequest(line)}
           requestError={request.isError ? (isApiError(request.error) ? request.error.message : 'The request could not be sent.') : null}
         />
         <InstallChecklist selfLeveling={hasKinds.selfLeveling} glued={hasKinds.glued} />

@@ -85,7 +85,7 @@ function RulesEditor({ rules, defaults, canEdit }: { rules: PadRules; defaults: 
 
   return (
     <Card as="section">
-      <form onSubmit={submit} noValidate className="space-y-5">
+      <form onSubmit={(event) => void submit(event)} noValidate className="space-y-5">
         {FIELDS.map((f) => {
           const id = `rule-${f.name}`;
           return (

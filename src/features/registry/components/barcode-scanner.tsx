@@ -43,7 +43,7 @@ export function BarcodeScanner({ onDetected, label = 'Scan a label' }: BarcodeSc
     let timer: ReturnType<typeof setInterval> | undefined;
     let stopped = false;
     const detector = new Detector();
-    (async () => {
+    void (async () => {
       try {
         stream = await navigator.mediaDevices.getUserMedia({ video: { facingMode: 'environment' }, audio: false });
         if (stopped || !videoRef.current) return;

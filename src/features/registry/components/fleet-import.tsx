@@ -5,7 +5,7 @@ import { Button } from '@/components/ui/button';
 import { Card, CardTitle } from '@/components/ui/card';
 import { ErrorState } from '@/components/ui/error-state';
 import { isApiError } from '@/lib/api-client';
-import { HELD_ELSEWHERE_MESSAGE, IMPORT_FIELDS, type ImportFieldKey, type ImportRowResult } from '@shared/schemas/registry';
+import { HELD_ELSEWHERE_MESSAGE, IMPORT_FIELDS, type ImportRowResult } from '@shared/schemas/registry';
 import {
   applyMapping,
   autoMapColumns,
@@ -183,7 +183,7 @@ export function FleetImport({ shop }: FleetImportProps) {
                   value={mapping[field.key] ?? ''}
                   disabled={running}
                   onChange={(e) => {
-                    setMapping({ ...mapping, [field.key as ImportFieldKey]: e.target.value || null });
+                    setMapping({ ...mapping, [field.key]: e.target.value || null });
                     setCheck(null);
                   }}
                 >

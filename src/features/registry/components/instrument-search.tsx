@@ -98,7 +98,7 @@ export function InstrumentSearch({
             autoComplete="off"
             autoCapitalize="characters"
             spellCheck={false}
-            // eslint-disable-next-line jsx-a11y/no-autofocus
+            // eslint-disable-next-line jsx-a11y/no-autofocus -- only where the screen exists to type a serial (the registry search, the intake's first step)
             autoFocus={autoFocus}
             value={query}
             onChange={(event) => {

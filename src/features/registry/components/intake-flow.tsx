@@ -51,6 +51,9 @@ interface IntakeFlowProps {
   jobPath?: (id: string) => string;
 }
 
+/** What a text field shows for a draft value (the shared schemas read these fields as `unknown`). */
+const fieldText = (value: unknown): string => (typeof value === 'string' || typeof value === 'number' ? String(value) : '');
+
 const emptyInstrument = (serial = ''): NewInstrumentInput => ({
   family: 'alto_saxophone', maker: '', model: '', serial, yearMade: undefined, assetTag: '', notes: '', ownerKind: 'customer',
 });
@@ -314,14 +317,14 @@ function InstrumentSummary({
   let text: string;
   let heavy = false;
   if (choice.kind === 'new') {
-    text = `${INSTRUMENT_FAMILY_LABELS[choice.data.family as keyof typeof INSTRUMENT_FAMILY_LABELS] ?? choice.data.family} · ${choice.data.maker} ${choice.data.model ?? ''} · SN ${choice.data.serial} (new)`;
+    text = `${INSTRUMENT_FAMILY_LABELS[choice.data.family as keyof typeof INSTRUMENT_FAMILY_LABELS] ?? choice.data.family} · ${choice.data.maker} ${fieldText(choice.data.model)} · SN ${choice.data.serial} (new)`;
     heavy = isHeavyCase(choice.data.family as InstrumentFamily, choice.data.heavyCase ?? false);
   } else if (existing.isPending) {
     return <Spinner label="Loading the instrument…" showLabel />;
   } else if (existing.isError) {
     return <ErrorState title="The instrument could not be loaded" error={existing.error} onRetry={() => void existing.refetch()} />;
   } else {
-    const i = existing.data!.instrument;
+    const i = existing.data.instrument;
     text = `${familyLabel(i.family)} · ${i.maker} ${i.model ?? ''} · SN ${i.serial} · at ${i.currentShop?.name ?? '—'}`;
     heavy = i.heavyCase;
   }
@@ -396,7 +399,7 @@ function NewInstrumentForm({
   };
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+    <form onSubmit={(event) => void onSubmit(event)} noValidate className="flex flex-col gap-4">
       <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
         <TextField label="Serial number as engraved" required value={String(draft.serial ?? '')} onChange={(e) => set('serial', e.target.value)} error={shown.serial} autoCapitalize="characters" spellCheck={false} />
         <SelectField label="Family" required value={String(draft.family)} onChange={(e) => set('family', e.target.value as NewInstrumentInput['family'])} error={shown.family}>
@@ -404,10 +407,10 @@ function NewInstrumentForm({
             <option key={f} value={f}>{INSTRUMENT_FAMILY_LABELS[f]}</option>
           ))}
         </SelectField>
-        <TextField label="Maker" required value={String(draft.maker ?? '')} onChange={(e) => set('maker', e.target.value)} error={shown.maker} />
-        <TextField label="Model" value={String(draft.model ?? '')} onChange={(e) => set('model', e.target.value)} error={shown.model} />
-        <TextField label="Year made" inputMode="numeric" value={draft.yearMade === undefined ? '' : String(draft.yearMade)} onChange={(e) => set('yearMade', e.target.value as unknown as number)} error={shown.yearMade} />
-        <TextField label="Asset tag" value={String(draft.assetTag ?? '')} onChange={(e) => set('assetTag', e.target.value)} error={shown.assetTag} hint="Leave empty and Benchrelay makes one for the QR label." />
+        <TextField label="Maker" required value={fieldText(draft.maker)} onChange={(e) => set('maker', e.target.value)} error={shown.maker} />
+        <TextField label="Model" value={fieldText(draft.model)} onChange={(e) => set('model', e.target.value)} error={shown.model} />
+        <TextField label="Year made" inputMode="numeric" value={fieldText(draft.yearMade)} onChange={(e) => set('yearMade', e.target.value as unknown as number)} error={shown.yearMade} />
+        <TextField label="Asset tag" value={fieldText(draft.assetTag)} onChange={(e) => set('assetTag', e.target.value)} error={shown.assetTag} hint="Leave empty and Benchrelay makes one for the QR label." />
         <SelectField label="Owned by" required value={draft.ownerKind} onChange={(e) => set('ownerKind', e.target.value as OwnerKind)} error={shown.ownerKind}>
           {OWNER_KINDS.map((k) => (
             <option key={k} value={k}>{OWNER_KIND_LABELS[k]}</option>
@@ -581,10 +584,10 @@ function CustomerPicker({
               </SelectField>
               <TextField label="Name" required value={draft.name} onChange={(e) => edit('name', e.target.value)} error={shown.name} autoComplete="off" />
               {draft.kind !== 'person' ? (
-                <TextField label="Contact person" value={String(draft.contactName ?? '')} onChange={(e) => edit('contactName', e.target.value)} error={shown.contactName} />
+                <TextField label="Contact person" value={fieldText(draft.contactName)} onChange={(e) => edit('contactName', e.target.value)} error={shown.contactName} />
               ) : null}
-              <TextField label="Phone" type="tel" value={String(draft.phone ?? '')} onChange={(e) => edit('phone', e.target.value)} error={shown.phone} />
-              <TextField label="E-mail" type="email" value={String(draft.email ?? '')} onChange={(e) => edit('email', e.target.value)} error={shown.email} />
+              <TextField label="Phone" type="tel" value={fieldText(draft.phone)} onChange={(e) => edit('phone', e.target.value)} error={shown.phone} />
+              <TextField label="E-mail" type="email" value={fieldText(draft.email)} onChange={(e) => edit('email', e.target.value)} error={shown.email} />
             </div>
             <Button variant="quiet" className="self-start" onClick={() => setAdding(false)}>Cancel the new customer</Button>
           </fieldset>

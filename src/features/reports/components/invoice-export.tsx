@@ -69,7 +69,7 @@ export function InvoiceExport({ shops }: InvoiceExportProps) {
           as decimals.
         </p>
       </div>
-      <form className="flex flex-col gap-4 sm:flex-row sm:flex-wrap sm:items-end" onSubmit={submit} noValidate>
+      <form className="flex flex-col gap-4 sm:flex-row sm:flex-wrap sm:items-end" onSubmit={(event) => void submit(event)} noValidate>
         <div className="flex flex-col gap-1">
           <label htmlFor={`${id}-from`} className="text-sm font-semibold text-ink-800">Released from</label>
           <input

@@ -146,9 +146,10 @@ function StockTable({ page }: { page: StockPage }) {
                 <td className="px-3 py-2 tabular-nums">{row.kind === 'pad' ? `${mm(row.diameterMm)} × ${mm(row.thicknessMm)}` : '—'}</td>
                 {isEditing ? (
                   <td colSpan={4} className="px-3 py-2">
-                    <form onSubmit={saveCount} className="flex flex-wrap items-end gap-2">
+                    <form onSubmit={(event) => void saveCount(event)} className="flex flex-wrap items-end gap-2">
                       <label className="flex flex-col text-xs font-semibold">
                         On hand
+                        {/* eslint-disable-next-line jsx-a11y/no-autofocus -- the field the person just asked to edit, opened by their own click */}
                         <input autoFocus type="number" min={0} value={editing.onHand} onChange={(e) => setEditing({ ...editing, onHand: e.target.value })} className="min-h-10 w-20 rounded-md border border-paper-300 px-2" />
                       </label>
                       <label className="flex flex-col text-xs font-semibold">
@@ -196,7 +197,7 @@ function StockTable({ page }: { page: StockPage }) {
               {tagging?.partId === row.partId ? (
                 <tr>
                   <td colSpan={7} className="px-3 pb-3">
-                    <form onSubmit={saveHazards} className="flex flex-col gap-2">
+                    <form onSubmit={(e) => void saveHazards(e)} className="flex flex-col gap-2">
                       <HazardCheckboxes
                         of={row.name}
                         value={tagging.hazards}

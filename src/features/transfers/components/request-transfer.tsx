@@ -1,4 +1,4 @@
-import { useEffect, useId, useState, type FormEvent } from 'react';
+import { useId, useState, type FormEvent } from 'react';
 import { subject } from '@casl/ability';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
@@ -98,8 +98,8 @@ function RecommendationForm({
   const [skillId, setSkillId] = useState<string | undefined>(undefined);
   const rec = useQuery(recommendationQueryOptions(jobId, skillId));
   const create = useRequestTransfer();
-  const [toShopId, setToShopId] = useState<string | null>(null);
-  const [reason, setReason] = useState('');
+  const [pickedShopId, setToShopId] = useState<string | null>(null);
+  const [typedReason, setReason] = useState('');
   const [reasonTouched, setReasonTouched] = useState(false);
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
   const reasonId = useId();
@@ -108,15 +108,15 @@ function RecommendationForm({
   const data = rec.data;
   const recommended = data?.ranked.find((r) => r.shopId === data.recommendedShopId);
   // preselect the recommendation and suggest a reason from it, until the person writes their own
-  useEffect(() => {
-    if (!data) return;
-    setToShopId((current) => (current && data.ranked.some((r) => r.shopId === current && !r.isOrigin) ? current : data.recommendedShopId));
-  }, [data]);
-  useEffect(() => {
-    if (reasonTouched || !data?.skill) return;
-    const target = data.ranked.find((r) => r.shopId === toShopId);
-    setReason(target?.finishDate ? `Needs ${data.skill.name.toLowerCase()} work: ${target.shopName} would finish it soonest, by ${formatLocalDate(target.finishDate)}.` : '');
-  }, [data, toShopId, reasonTouched]);
+  const pickedIsOffered = !!pickedShopId && !!data?.ranked.some((r) => r.shopId === pickedShopId && !r.isOrigin);
+  const toShopId = data && !pickedIsOffered ? data.recommendedShopId : pickedShopId;
+  const suggested = data?.ranked.find((r) => r.shopId === toShopId);
+  const reason =
+    reasonTouched || !data?.skill
+      ? typedReason
+      : suggested?.finishDate
+        ? `Needs ${data.skill.name.toLowerCase()} work: ${suggested.shopName} would finish it soonest, by ${formatLocalDate(suggested.finishDate)}.`
+        : '';
 
   if (rec.isPending) return <Spinner label="Ranking the shops…" showLabel />;
   if (rec.isError) {
@@ -207,7 +207,7 @@ function RecommendationForm({
       ) : data!.ranked.length === 0 ? (
         <EmptyState title={`No shop offers ${data!.skill.name.toLowerCase()}`}>Add the skill to a shop, or choose another skill.</EmptyState>
       ) : (
-        <form onSubmit={submit} noValidate className="flex flex-col gap-6">
+        <form onSubmit={(event) => void submit(event)} noValidate className="flex flex-col gap-6">
           <RankingList
             ranked={data!.ranked}
             recommendedShopId={data!.recommendedShopId}

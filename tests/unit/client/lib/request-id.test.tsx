@@ -13,7 +13,7 @@ afterEach(() => {
 });
 
 function answer(status: number, body: string, headers: Record<string, string> = {}) {
-  vi.stubGlobal('fetch', vi.fn(async () => new Response(body, { status, headers })));
+  vi.stubGlobal('fetch', vi.fn(() => Promise.resolve(new Response(body, { status, headers }))));
 }
 
 describe('request ids on the client', () => {

@@ -55,7 +55,7 @@ describe('pad keys per family', () => {
   });
 
   it('ids are unique within each family and brass has no pads', () => {
-    for (const keys of Object.values(PAD_KEYS_BY_FAMILY)) expect(new Set(keys!.map((k) => k.id)).size).toBe(keys!.length);
+    for (const keys of Object.values(PAD_KEYS_BY_FAMILY)) expect(new Set(keys.map((k) => k.id)).size).toBe(keys.length);
     expect(hasPadKeys('trumpet')).toBe(false);
     expect(hasPadKeys('flute')).toBe(true);
     expect(keyName('alto_saxophone', 'gs')).toBe('G♯');
